@@ -3,7 +3,7 @@ import { z } from 'zod';
 /** Every API error has this body, whatever the status. */
 export const apiErrorSchema = z.object({
   error: z.object({
-    /** Machine-readable: `validation`, `unauthenticated`, `forbidden`, `not-found`, `conflict`, `rate-limited`, `payload-too-large`, `internal`. */
+    /** Machine-readable: `validation`, `unauthenticated`, `invalid-credentials`, `invalid-token`, `forbidden`, `not-found`, `conflict`, `rate-limited`, `payload-too-large`, `unavailable`, `internal`. */
     code: z.string(),
     message: z.string(),
     /** For validation errors: one entry per offending field, `path` dotted (`rules.stage.noise-margin.params.minFraction`). */

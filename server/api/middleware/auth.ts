@@ -1,0 +1,122 @@
+// Who is calling. `authenticate` runs on every /api request and sets `req.auth`
+// from the session cookie; `requirePermission` guards every route with the table
+// in shared/roles.ts. Routes read the caller with `signedIn(req)` and scope data
+// with `teamIdOf(req)`.
+
+import type { Request, RequestHandler, Response } from 'express';
+import type { Session } from 'lucia';
+import { can, type Permission, type Role } from '../../../shared/roles';
+import type { AppContext } from '../../context';
+import type { ApiTokenScope } from '../../db/models/tokens';
+import { forbidden, unauthenticated } from '../../errors';
+
+export interface AuthUser {
+  id: string;
+  email: string;
+  name: string;
+  roles: Role[];
+  teamId: string | null;
+}
+
+export type Auth =
+  | { via: 'session'; user: AuthUser; session: Session }
+  | { via: 'token'; user: AuthUser; tokenId: string; scope: ApiTokenScope };
+
+declare global {
+  namespace Express {
+    interface Request {
+      auth?: Auth;
+    }
+  }
+}
+
+/** What an API token may do at most, whatever its owner's roles allow beyond that. */
+export const TOKEN_SCOPE_PERMISSIONS: Record<ApiTokenScope, readonly Permission[]> = {
+  read: ['design.read'],
+  submit: ['design.read', 'run.submit'],
+};
+
+export function authenticate(ctx: AppContext): RequestHandler {
+  return async (req, res, next) => {
+    const authorization = req.headers.authorization;
+    if (authorization?.toLowerCase().startsWith('bearer ')) {
+      // Personal API tokens (table api_tokens, hashed with services/tokens.ts) are
+      // verified here: look the token up, set `req.auth = { via: 'token', … }` and
+      // stamp last_used_at. A bearer request never falls back to the cookie. Until
+      // that lands, a bearer token authenticates nobody.
+      return next();
+    }
+
+    const sessionId = ctx.lucia.readSessionCookie(req.headers.cookie ?? '');
+    if (!sessionId) return next();
+    const { session, user } = await ctx.lucia.validateSession(sessionId);
+    if (!session) {
+      clearSessionCookie(ctx, req, res);
+      return next();
+    }
+    if (user.disabled) {
+      await ctx.lucia.invalidateUserSessions(user.id);
+      clearSessionCookie(ctx, req, res);
+      return next();
+    }
+    // Lucia extends a session used in the second half of its lifetime; send the new expiry.
+    if (session.fresh) setSessionCookie(ctx, req, res, session);
+    req.auth = {
+      via: 'session',
+      session,
+      user: { id: user.id, email: user.email, name: user.name, roles: user.roles, teamId: user.teamId },
+    };
+    next();
+  };
+}
+
+export function signedIn(req: Request): Auth {
+  if (!req.auth) throw unauthenticated();
+  return req.auth;
+}
+
+/** The caller's team; everything a route reads or writes is scoped to it. */
+export function teamIdOf(req: Request): string {
+  const { user } = signedIn(req);
+  if (!user.teamId) throw forbidden('Your account belongs to no team yet.');
+  return user.teamId;
+}
+
+export function allows(auth: Auth, permission: Permission): boolean {
+  if (!can(auth.user.roles, permission)) return false;
+  if (auth.via === 'token') return TOKEN_SCOPE_PERMISSIONS[auth.scope].includes(permission);
+  return true;
+}
+
+/** 401 for nobody, 403 when the caller's roles (and token scope) do not grant `permission`. */
+export function requirePermission(permission: Permission): RequestHandler {
+  return (req, _res, next) => {
+    const auth = signedIn(req);
+    if (!allows(auth, permission)) throw forbidden();
+    next();
+  };
+}
+
+export const requireSignedIn: RequestHandler = (req, _res, next) => {
+  signedIn(req);
+  next();
+};
+
+function cookieOptions(ctx: AppContext, req: Request) {
+  return {
+    httpOnly: true,
+    sameSite: 'lax' as const,
+    // Secure whenever the browser reached us over TLS (directly, or through a trusted proxy) and always in production.
+    secure: ctx.config.isProduction || req.secure,
+    path: '/',
+  };
+}
+
+export function setSessionCookie(ctx: AppContext, req: Request, res: Response, session: Session): void {
+  res.cookie(ctx.lucia.sessionCookieName, session.id, { ...cookieOptions(ctx, req), expires: session.expiresAt });
+}
+
+export function clearSessionCookie(ctx: AppContext, req: Request, res: Response): void {
+  res.clearCookie(ctx.lucia.sessionCookieName, cookieOptions(ctx, req));
+}
+

@@ -1,0 +1,32 @@
+// npm run seed: install the demo scenario (server/seed/demo.ts) into the configured database.
+
+import { getConfig } from '../config';
+import { initModels } from '../db/models';
+import { createSequelize } from '../db/sequelize';
+import { demoSignInText, seedDemo } from './demo';
+
+async function main(): Promise<number> {
+  const config = getConfig();
+  if (config.isProduction) {
+    process.stderr.write('seed: refusing to install demo users with published passwords in production\n');
+    return 1;
+  }
+  const sequelize = createSequelize(config);
+  initModels(sequelize);
+  try {
+    const result = await seedDemo(sequelize);
+    process.stdout.write(result.created.length ? `seed: created ${result.created.join('; ')}\n` : 'seed: demo data already present\n');
+    process.stdout.write(demoSignInText(config.publicUrl) + '\n');
+    return 0;
+  } finally {
+    await sequelize.close();
+  }
+}
+
+main().then(
+  (code) => process.exit(code),
+  (err) => {
+    process.stderr.write(`seed: ${err instanceof Error ? err.message : String(err)}\n`);
+    process.exit(1);
+  },
+);

@@ -1,0 +1,38 @@
+// What the admin's outbox screen reads: the team's outgoing mail and its delivery state.
+
+import type { OutboxMessage } from '../../shared/api/admin';
+import { MailMessage } from '../db/models';
+import { notFound } from '../errors';
+
+function summary(m: MailMessage) {
+  return {
+    id: m.id,
+    to: m.to,
+    subject: m.subject,
+    status: m.status,
+    error: m.error,
+    attempts: m.attempts,
+    createdAt: m.createdAt.toISOString(),
+    sentAt: m.sentAt ? m.sentAt.toISOString() : null,
+  };
+}
+
+export async function listOutbox(teamId: string, page: number, pageSize: number) {
+  const { rows, count } = await MailMessage.findAndCountAll({
+    where: { teamId },
+    attributes: { exclude: ['text', 'html'] },
+    order: [
+      ['createdAt', 'DESC'],
+      ['id', 'DESC'],
+    ],
+    limit: pageSize,
+    offset: (page - 1) * pageSize,
+  });
+  return { items: rows.map(summary), total: count, page, pageSize };
+}
+
+export async function getOutboxMessage(teamId: string, id: string): Promise<OutboxMessage> {
+  const m = await MailMessage.findOne({ where: { id, teamId } });
+  if (!m) throw notFound('Message');
+  return { ...summary(m), text: m.text, html: m.html };
+}
