@@ -1,0 +1,56 @@
+// MOS drain-current models, written once for an n-channel device; a p-channel
+// device is evaluated as its mirror image (every voltage negated, current negated).
+//
+// Long-channel square law (Shichman–Hodges) with channel-length modulation and body
+// effect, and the unified short-channel model with a velocity-saturation voltage
+// VDSAT (Rabaey, Chandrakasan, Nikolić, Digital Integrated Circuits, 2nd ed.):
+//   ID = k′(W/L)[VGT·Vmin − Vmin²/2](1 + λVDS),
+//   Vmin = min(VGT, VDS)            square law (VDS ≥ VGT gives k′/2·(W/L)·VGT²)
+//   Vmin = min(VGT, VDS, VDSAT)     velocity-saturated
+// Both are continuous across the linear/saturation boundary because (1 + λVDS)
+// multiplies both regions, as SPICE level 1 does.
+
+import type { DeviceModelKind } from '../../shared/deck';
+
+export type Polarity = 'n' | 'p';
+
+/** Parameters of one device type at one corner, threshold as an n-equivalent value (positive for enhancement devices of either polarity). */
+export interface MosModel {
+  polarity: Polarity;
+  kind: DeviceModelKind;
+  vt0: number;
+  kPrime: number;
+  lambda: number;
+  gamma: number;
+  phi2F: number;
+  vdsat: number;
+}
+
+/** VT = VT0 + γ(√(2φF + VSB) − √(2φF)); a forward-biased body (VSB < −2φF) is clamped at the square root's zero. */
+export function thresholdVoltage(m: MosModel, vsb: number): number {
+  if (m.gamma === 0) return m.vt0;
+  return m.vt0 + m.gamma * (Math.sqrt(Math.max(m.phi2F + vsb, 0)) - Math.sqrt(m.phi2F));
+}
+
+/** n-equivalent drain current for VDS ≥ 0; `beta` = k′·W/L. */
+export function forwardCurrent(m: MosModel, beta: number, vgs: number, vds: number, vsb: number): number {
+  const vgt = vgs - thresholdVoltage(m, vsb);
+  if (vgt <= 0) return 0;
+  let vmin = vds < vgt ? vds : vgt;
+  if (m.kind === 'velocity-saturated' && m.vdsat < vmin) vmin = m.vdsat;
+  return beta * (vgt * vmin - 0.5 * vmin * vmin) * (1 + m.lambda * vds);
+}
+
+/**
+ * Current flowing through the channel from terminal `a` to terminal `b`.
+ * The device is symmetric: whichever of a and b is lower (higher for p-channel) acts as the source.
+ */
+export function channelCurrent(m: MosModel, beta: number, va: number, vb: number, vg: number, vbulk: number): number {
+  if (m.polarity === 'p') return -nChannelCurrent(m, beta, -va, -vb, -vg, -vbulk);
+  return nChannelCurrent(m, beta, va, vb, vg, vbulk);
+}
+
+function nChannelCurrent(m: MosModel, beta: number, va: number, vb: number, vg: number, vbulk: number): number {
+  if (va >= vb) return forwardCurrent(m, beta, vg - vb, va - vb, vb - vbulk);
+  return -forwardCurrent(m, beta, vg - va, vb - va, va - vbulk);
+}

@@ -1,0 +1,243 @@
+// DC transfer curve of one stage: Vout(Vin) by current balance at the output node.
+//
+// A stage circuit is compact: node 0 is ground, 1 the supply, 2 the output, 3 the
+// swept input; inputs held at a logic level are tied to node 0 or 1; nodes from 4 up
+// are internal. The pull-up network joins the output (its end a) to the supply, the
+// pull-down network joins the output (a) to ground.
+//
+// For each input voltage the output is the root of the net current into the output
+// node, which falls monotonically as Vout rises (the pull-up carries less, the
+// pull-down more), found with Brent's method on [0, VDD]. Slopes come from the
+// implicit-function theorem, dVout/dVin = −(∂I/∂Vin)/(∂I/∂Vout), with central
+// differences of the balance; so the curve's gain is exact at the switching threshold
+// even where λ = 0 makes the curve vertical.
+//
+// Derived points follow the usual definitions (Rabaey et al., Digital Integrated
+// Circuits, 2nd ed., §5.3): VM where Vout = Vin, VIL and VIH where the slope is −1
+// (+1 for a non-inverting stage), VOH and VOL the output levels for rail inputs,
+// NMH = VOH − VIH, NML = VIL − VOL.
+
+import type { CircuitElement, Network } from './network';
+import { NetworkEvaluator } from './network';
+import { brent, goldenMax } from './roots';
+
+export const GROUND = 0;
+export const POWER = 1;
+export const OUTPUT = 2;
+export const INPUT = 3;
+export const FIRST_INTERNAL = 4;
+
+/**
+ * SPICE's default minimum conductance (GMIN = 1e-12 S). It bounds the output conductance
+ * from below when computing a slope, so an ideal λ = 0 curve reports a very large finite gain.
+ */
+export const GMIN = 1e-12;
+
+export interface StageCircuit {
+  vdd: number;
+  nodeCount: number;
+  elements: CircuitElement[];
+  pullUp: Network;
+  pullDown: Network;
+}
+
+export interface TransferResult {
+  vdd: number;
+  vin: number[];
+  vout: number[];
+  inverting: boolean;
+  /** Switching threshold. */
+  vm: number;
+  /** How `vm` was found: where Vout = Vin, or (a non-inverting stage whose curve never meets Vout = Vin) where the output crosses mid-swing. */
+  vmDefinition: 'vout-equals-vin' | 'mid-swing';
+  /** dVout/dVin at VM (negative for an inverting stage). */
+  gainAtVm: number;
+  /** The slope of largest magnitude anywhere on the curve, and where. */
+  maxGain: number;
+  maxGainAt: number;
+  vil: number | null;
+  vih: number | null;
+  voh: number;
+  vol: number;
+  nmh: number | null;
+  nml: number | null;
+}
+
+export interface TransferOptions {
+  /** Uniform intervals before refinement. */
+  gridIntervals?: number;
+  /** Refine an interval while its output step exceeds this fraction of VDD. */
+  maxStepFraction?: number;
+  maxPoints?: number;
+}
+
+export class TransferSolver {
+  readonly v: Float64Array;
+  readonly net: NetworkEvaluator;
+  private readonly h: number;
+
+  constructor(readonly circuit: StageCircuit) {
+    this.v = new Float64Array(circuit.nodeCount);
+    this.v[POWER] = circuit.vdd;
+    this.net = new NetworkEvaluator(circuit.elements, this.v);
+    this.h = 1e-5 * Math.max(circuit.vdd, 0.1);
+  }
+
+  /** Net current into the output node. */
+  balance(vin: number, vout: number): number {
+    const v = this.v;
+    v[INPUT] = vin;
+    v[OUTPUT] = vout;
+    return -this.net.current(this.circuit.pullUp) - this.net.current(this.circuit.pullDown);
+  }
+
+  vout(vin: number): number {
+    return brent((x) => this.balance(vin, x), 0, this.circuit.vdd, 1e-12);
+  }
+
+  /** dVout/dVin at a solved point. */
+  slope(vin: number, vout: number): number {
+    const h = this.h;
+    const dIn = (this.balance(vin + h, vout) - this.balance(vin - h, vout)) / (2 * h);
+    const dOut = Math.min((this.balance(vin, vout + h) - this.balance(vin, vout - h)) / (2 * h), -GMIN);
+    return -dIn / dOut;
+  }
+
+  slopeAt(vin: number): number {
+    return this.slope(vin, this.vout(vin));
+  }
+}
+
+export function analyseTransfer(circuit: StageCircuit, options: TransferOptions = {}): TransferResult {
+  const solver = new TransferSolver(circuit);
+  const vdd = circuit.vdd;
+  const intervals = options.gridIntervals ?? 40;
+  const maxStep = (options.maxStepFraction ?? 1 / 40) * vdd;
+  const maxPoints = options.maxPoints ?? 200;
+  const minWidth = vdd / 8192;
+
+  const vin: number[] = [];
+  const vout: number[] = [];
+  for (let i = 0; i <= intervals; i++) {
+    const x = (vdd * i) / intervals;
+    vin.push(x);
+    vout.push(solver.vout(x));
+  }
+  // Refine where the curve moves fast, so the threshold region is sampled finely.
+  for (let pass = 0; pass < 12 && vin.length < maxPoints; pass++) {
+    let changed = false;
+    for (let i = vin.length - 2; i >= 0 && vin.length < maxPoints; i--) {
+      if (Math.abs(vout[i + 1] - vout[i]) > maxStep && vin[i + 1] - vin[i] > minWidth) {
+        const x = 0.5 * (vin[i] + vin[i + 1]);
+        vin.splice(i + 1, 0, x);
+        vout.splice(i + 1, 0, solver.vout(x));
+        changed = true;
+      }
+    }
+    if (!changed) break;
+  }
+  const n = vin.length;
+  const slopes = vin.map((x, i) => solver.slope(x, vout[i]));
+  const inverting = vout[0] >= vout[n - 1];
+  const voh = Math.max(vout[0], vout[n - 1]);
+  const vol = Math.min(vout[0], vout[n - 1]);
+
+  // Switching threshold: Vout = Vin. The balance with output tied to input has the sign of Vout(V) − V.
+  let vm: number | null = null;
+  let vmOut = 0;
+  let vmDefinition: TransferResult['vmDefinition'] = 'vout-equals-vin';
+  let bestGain = -1;
+  for (let i = 0; i < n - 1; i++) {
+    const d0 = vout[i] - vin[i];
+    const d1 = vout[i + 1] - vin[i + 1];
+    if (d0 === 0 || (d0 > 0) !== (d1 > 0)) {
+      const x = d0 === 0 ? vin[i] : brent((y) => solver.balance(y, y), vin[i], vin[i + 1], 1e-12);
+      const g = Math.abs(solver.slope(x, x));
+      if (g > bestGain) {
+        bestGain = g;
+        vm = x;
+        vmOut = x;
+      }
+    }
+  }
+  if (vm === null) {
+    const d = vout[n - 1] - vin[n - 1];
+    if (d === 0) {
+      vm = vin[n - 1];
+      vmOut = vm;
+    } else {
+      vmDefinition = 'mid-swing';
+      const mid = 0.5 * (voh + vol);
+      let i = 0;
+      while (i < n - 2 && (vout[i] - mid > 0) === (vout[i + 1] - mid > 0)) i++;
+      vm = brent((x) => solver.vout(x) - mid, vin[i], vin[i + 1], 1e-12);
+      vmOut = solver.vout(vm);
+    }
+  }
+  const gainAtVm = solver.slope(vm, vmOut);
+
+  // Unity-gain points nearest the threshold on either side.
+  const excess = (x: number) => Math.abs(solver.slopeAt(x)) - 1;
+  let vil: number | null = null;
+  let vih: number | null = null;
+  if (Math.abs(gainAtVm) > 1) {
+    let j = n - 1;
+    while (j >= 0 && !(vin[j] < vm && Math.abs(slopes[j]) <= 1)) j--;
+    if (j >= 0) {
+      let right = vm;
+      for (let i = j + 1; i < n && vin[i] < vm; i++) {
+        if (Math.abs(slopes[i]) > 1) {
+          right = vin[i];
+          break;
+        }
+      }
+      vil = brent(excess, vin[j], right, 1e-9);
+    }
+    j = 0;
+    while (j < n && !(vin[j] > vm && Math.abs(slopes[j]) <= 1)) j++;
+    if (j < n) {
+      let left = vm;
+      for (let i = j - 1; i >= 0 && vin[i] > vm; i--) {
+        if (Math.abs(slopes[i]) > 1) {
+          left = vin[i];
+          break;
+        }
+      }
+      vih = brent(excess, left, vin[j], 1e-9);
+    }
+  }
+
+  let peak = 0;
+  for (let i = 1; i < n; i++) if (Math.abs(slopes[i]) > Math.abs(slopes[peak])) peak = i;
+  const lo = vin[Math.max(peak - 1, 0)];
+  const hi = vin[Math.min(peak + 1, n - 1)];
+  const refined = goldenMax((x) => Math.abs(solver.slopeAt(x)), lo, hi, 1e-7 * vdd);
+  let maxGainAt = refined.x;
+  let maxGain = solver.slopeAt(refined.x);
+  if (Math.abs(slopes[peak]) > Math.abs(maxGain)) {
+    maxGain = slopes[peak];
+    maxGainAt = vin[peak];
+  }
+  if (Math.abs(gainAtVm) > Math.abs(maxGain)) {
+    maxGain = gainAtVm;
+    maxGainAt = vm;
+  }
+
+  return {
+    vdd,
+    vin,
+    vout,
+    inverting,
+    vm,
+    vmDefinition,
+    gainAtVm,
+    maxGain,
+    maxGainAt,
+    vil,
+    vih,
+    voh,
+    vol,
+    nmh: vih === null ? null : voh - vih,
+    nml: vil === null ? null : vil - vol,
+  };
+}

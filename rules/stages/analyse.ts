@@ -1,0 +1,260 @@
+// Electrical analysis of a cell's static stages: for every stage, every input and
+// every corner, the DC transfer curve with the other inputs held at each
+// combination that lets the swept input control the output (their non-controlling
+// values), and the worst of those cases.
+//
+// Solves are memoised by stage signature — element types, sizes, resolved device
+// parameters, topology, held inputs and supply — per design, so a netlist of a
+// million devices built from a few thousand distinct stages costs a few thousand
+// solves.
+
+import type { Cell, Design, RailKind } from '../../grammar/design';
+import type { Corner, Deck } from '../../shared/deck';
+import type { CircuitElement, Network } from '../electrical/network';
+import { mapNetwork } from '../electrical/network';
+import { ModelResolver, type ResolvedModel } from '../electrical/parameters';
+import { analyseTransfer, FIRST_INTERNAL, GROUND, INPUT, OUTPUT, POWER, type StageCircuit, type TransferResult } from '../electrical/transfer';
+import { outputValue, stageLogic } from './classify';
+import type { Stage } from './stage';
+import { GROUND_END, POWER_END } from './stage';
+
+/** Kinds with a static transfer curve. */
+export const STATIC_KINDS: ReadonlySet<Stage['kind']> = new Set(['inverter', 'complementary', 'ratioed', 'clocked']);
+
+/** At most this many held-input combinations are solved per swept input (spread over the sensitising ones). */
+export const MAX_CASES_PER_INPUT = 6;
+const MAX_ENUMERATED_OTHERS = 10;
+
+export interface HeldInput {
+  net: number;
+  high: boolean;
+}
+
+export interface TransferCase {
+  held: HeldInput[];
+  result: TransferResult;
+}
+
+export interface ModelUse {
+  polarity: 'n' | 'p';
+  model: string;
+  resolved: ResolvedModel;
+}
+
+export interface CornerAnalysis {
+  corner: string;
+  vdd: number;
+  cases: TransferCase[];
+  /** The case with the smallest noise margin (a case without unity-gain points counts as none). */
+  worstMargin: TransferCase;
+  /** The case with the smallest gain magnitude at its switching threshold. */
+  weakestGain: TransferCase;
+  models: ModelUse[];
+}
+
+export interface InputAnalysis {
+  input: number;
+  corners: CornerAnalysis[];
+}
+
+export interface StageAnalysis {
+  stage: Stage;
+  inputs: InputAnalysis[];
+  /** Why the stage has no transfer analysis, when it has none. */
+  skipped: string | null;
+}
+
+export interface AnalysisStats {
+  /** Transfer curves actually solved. */
+  solves: number;
+  /** Lookups answered from the memo. */
+  hits: number;
+}
+
+interface DesignMemo {
+  transfers: Map<string, TransferResult>;
+  stats: AnalysisStats;
+  resolvers: Map<Corner, Map<boolean, ModelResolver>>;
+  modelKeys: Map<ResolvedModel, string>;
+}
+
+const memos = new WeakMap<Design, DesignMemo>();
+
+function memoOf(design: Design): DesignMemo {
+  let m = memos.get(design);
+  if (!m) memos.set(design, (m = { transfers: new Map(), stats: { solves: 0, hits: 0 }, resolvers: new Map(), modelKeys: new Map() }));
+  return m;
+}
+
+export function analysisStats(design: Design): AnalysisStats {
+  return { ...memoOf(design).stats };
+}
+
+function resolverFor(memo: DesignMemo, design: Design, corner: Corner, useNetlistModels: boolean): ModelResolver {
+  let byFlag = memo.resolvers.get(corner);
+  if (!byFlag) memo.resolvers.set(corner, (byFlag = new Map()));
+  let r = byFlag.get(useNetlistModels);
+  if (!r) byFlag.set(useNetlistModels, (r = new ModelResolver(corner, design.models, useNetlistModels)));
+  return r;
+}
+
+function modelKey(memo: DesignMemo, r: ResolvedModel): string {
+  let k = memo.modelKeys.get(r);
+  if (k === undefined) {
+    const m = r.model;
+    k = [m.polarity, m.kind, m.vt0, m.kPrime, m.lambda, m.gamma, m.phi2F, m.vdsat].join(',');
+    memo.modelKeys.set(r, k);
+  }
+  return k;
+}
+
+function networkKey(n: Network): string {
+  if (n.kind === 'leaf') return `${n.element}:${n.a}-${n.b}`;
+  const inner = n.children.map(networkKey).join(' ');
+  return n.kind === 'series' ? `S(${inner})[${n.nodes.join(',')}]` : `P(${inner})`;
+}
+
+export interface StageEnvironment {
+  design: Design;
+  cell: Cell;
+  deck: Deck;
+  railOf: (net: number) => RailKind | undefined;
+  alias: Int32Array;
+}
+
+/** Builds the compact circuit of one stage with `swept` as the input and `held` inputs at the rails. */
+export function stageCircuit(
+  env: StageEnvironment,
+  stage: Stage,
+  swept: number,
+  held: readonly HeldInput[],
+  resolver: ModelResolver,
+  vdd: number,
+  memo?: DesignMemo,
+): { circuit: StageCircuit; key: string; models: ModelUse[] } {
+  const { cell, railOf, alias } = env;
+  const heldMap = new Map(held.map((h) => [h.net, h.high]));
+  const nodes = new Map<number, number>();
+  let next = FIRST_INTERNAL;
+  const stageNets = new Set<number>([...stage.internal, ...(stage.output === null ? [] : [stage.output])]);
+  const nodeOf = (net: number, bulkOf?: 'n' | 'p'): number => {
+    if (net === POWER_END) return POWER;
+    if (net === GROUND_END) return GROUND;
+    const r = railOf(net);
+    if (r) return r === 'power' ? POWER : GROUND;
+    if (net === stage.output) return OUTPUT;
+    if (net === swept) return INPUT;
+    const h = heldMap.get(net);
+    if (h !== undefined) return h ? POWER : GROUND;
+    if (!stageNets.has(net) && bulkOf) return bulkOf === 'n' ? GROUND : POWER;
+    let x = nodes.get(net);
+    if (x === undefined) nodes.set(net, (x = next++));
+    return x;
+  };
+  const pullUp = mapNetwork(stage.pullUp!, (x) => nodeOf(x));
+  const pullDown = mapNetwork(stage.pullDown!, (x) => nodeOf(x));
+  const elements: CircuitElement[] = [];
+  const parts: string[] = [String(vdd)];
+  const used = new Map<string, ModelUse>();
+  for (const el of stage.elements) {
+    if (el.kind === 'res') {
+      const r = cell.others[el.index];
+      const g = r.kind === 'res' && r.value > 0 ? 1 / r.value : 0;
+      elements.push({ kind: 'res', conductance: g });
+      parts.push(`r${g}`);
+      continue;
+    }
+    const m = cell.mosfets[el.index];
+    const resolved = resolver.get(m.polarity, m.model);
+    used.set(m.polarity + '|' + m.model.toLowerCase(), { polarity: m.polarity, model: m.model, resolved });
+    const beta = (resolved.model.kPrime * m.w * m.m) / m.l;
+    const gate = nodeOf(alias[m.gate]);
+    const bulk = nodeOf(alias[m.bulk], m.polarity);
+    elements.push({ kind: 'mos', model: resolved.model, beta, gate, bulk });
+    parts.push(`m${beta}|${gate}|${bulk}|${memo ? modelKey(memo, resolved) : ''}`);
+  }
+  parts.push(networkKey(pullUp), networkKey(pullDown));
+  return {
+    circuit: { vdd, nodeCount: next, elements, pullUp, pullDown },
+    key: parts.join(';'),
+    models: [...used.values()],
+  };
+}
+
+/** Held-input combinations under which `swept` alone decides the output (each a sensitising assignment). */
+export function sensitisingCases(env: StageEnvironment, stage: Stage, swept: number): HeldInput[][] {
+  const logic = stageLogic(stage, env.cell, env.railOf);
+  const bit = stage.inputs.indexOf(swept);
+  const others = stage.inputs.map((_, i) => i).filter((i) => i !== bit);
+  const masks: number[] = [];
+  if (others.length <= MAX_ENUMERATED_OTHERS) {
+    for (let m = 0; m < 1 << others.length; m++) masks.push(m);
+  } else {
+    // Too many to enumerate: all low, all high, and each single flip of those.
+    const all = (1 << others.length) - 1;
+    masks.push(0, all);
+    for (let i = 0; i < others.length; i++) masks.push(1 << i, all & ~(1 << i));
+  }
+  const found: HeldInput[][] = [];
+  for (const m of masks) {
+    let full = 0;
+    others.forEach((b, i) => {
+      if ((m >> i) & 1) full |= 1 << b;
+    });
+    const v0 = outputValue(stage, logic, full);
+    const v1 = outputValue(stage, logic, full | (1 << bit));
+    if ((v0 === 0 || v0 === 1) && (v1 === 0 || v1 === 1) && v0 !== v1) {
+      found.push(others.map((b, i) => ({ net: stage.inputs[b], high: ((m >> i) & 1) === 1 })));
+    }
+  }
+  if (found.length <= MAX_CASES_PER_INPUT) return found;
+  // Spread the kept cases over the range from fewest to most inputs held high.
+  const ones = (c: HeldInput[]) => c.filter((h) => h.high).length;
+  found.sort((x, y) => ones(x) - ones(y));
+  const kept: HeldInput[][] = [];
+  for (let i = 0; i < MAX_CASES_PER_INPUT; i++) kept.push(found[Math.round((i * (found.length - 1)) / (MAX_CASES_PER_INPUT - 1))]);
+  return [...new Set(kept)];
+}
+
+/** Smallest noise margin of a case; −∞ when the curve has no unity-gain points. */
+export function marginOf(r: TransferResult): number {
+  return r.nmh === null || r.nml === null ? -Infinity : Math.min(r.nmh, r.nml);
+}
+
+export function analyseStage(env: StageEnvironment, stage: Stage): StageAnalysis {
+  if (!STATIC_KINDS.has(stage.kind)) return { stage, inputs: [], skipped: `${stage.kind} stage: no static transfer curve` };
+  if (!stage.pullUp || !stage.pullDown) return { stage, inputs: [], skipped: 'networks are not series/parallel' };
+  const memo = memoOf(env.design);
+  const inputs: InputAnalysis[] = [];
+  for (const input of stage.inputs) {
+    const cases = sensitisingCases(env, stage, input);
+    if (!cases.length) continue;
+    const corners: CornerAnalysis[] = [];
+    for (const corner of env.deck.corners) {
+      const resolver = resolverFor(memo, env.design, corner, env.deck.useNetlistModels);
+      const solved: TransferCase[] = [];
+      let models: ModelUse[] = [];
+      for (const held of cases) {
+        const built = stageCircuit(env, stage, input, held, resolver, corner.vdd, memo);
+        models = built.models;
+        let result = memo.transfers.get(built.key);
+        if (result) memo.stats.hits++;
+        else {
+          result = analyseTransfer(built.circuit);
+          memo.transfers.set(built.key, result);
+          memo.stats.solves++;
+        }
+        solved.push({ held, result });
+      }
+      let worstMargin = solved[0];
+      let weakestGain = solved[0];
+      for (const c of solved) {
+        if (marginOf(c.result) < marginOf(worstMargin.result)) worstMargin = c;
+        if (Math.abs(c.result.gainAtVm) < Math.abs(weakestGain.result.gainAtVm)) weakestGain = c;
+      }
+      corners.push({ corner: corner.name, vdd: corner.vdd, cases: solved, worstMargin, weakestGain, models });
+    }
+    inputs.push({ input, corners });
+  }
+  return { stage, inputs, skipped: inputs.length ? null : 'no input controls the output on its own' };
+}
