@@ -28,8 +28,11 @@ export const INPUT = 3;
 export const FIRST_INTERNAL = 4;
 
 /**
- * SPICE's default minimum conductance (GMIN = 1e-12 S). It bounds the output conductance
- * from below when computing a slope, so an ideal λ = 0 curve reports a very large finite gain.
+ * SPICE's default minimum conductance (GMIN = 1e-12 S), which SPICE places across every
+ * junction. Keepwell places it across each junction on the output node (to the device's
+ * bulk), as SPICE does: when every device is cut off it settles the output where SPICE
+ * would instead of anywhere on a zero-current plateau, and it keeps the output
+ * conductance, and so the gain of an ideal λ = 0 curve, finite.
  */
 export const GMIN = 1e-12;
 
@@ -75,12 +78,23 @@ export class TransferSolver {
   readonly v: Float64Array;
   readonly net: NetworkEvaluator;
   private readonly h: number;
+  /** Bulk node of every junction on the output. */
+  private readonly outputJunctions: number[] = [];
 
   constructor(readonly circuit: StageCircuit) {
     this.v = new Float64Array(circuit.nodeCount);
     this.v[POWER] = circuit.vdd;
     this.net = new NetworkEvaluator(circuit.elements, this.v);
     this.h = 1e-5 * Math.max(circuit.vdd, 0.1);
+    const visit = (n: Network) => {
+      if (n.kind !== 'leaf') return n.children.forEach(visit);
+      const e = circuit.elements[n.element];
+      if (e.kind !== 'mos') return;
+      if (n.a === OUTPUT) this.outputJunctions.push(e.bulk);
+      if (n.b === OUTPUT) this.outputJunctions.push(e.bulk);
+    };
+    visit(circuit.pullUp);
+    visit(circuit.pullDown);
   }
 
   /** Net current into the output node. */
@@ -88,7 +102,9 @@ export class TransferSolver {
     const v = this.v;
     v[INPUT] = vin;
     v[OUTPUT] = vout;
-    return -this.net.current(this.circuit.pullUp) - this.net.current(this.circuit.pullDown);
+    let leak = 0;
+    for (const b of this.outputJunctions) leak += GMIN * (v[b] - vout);
+    return leak - this.net.current(this.circuit.pullUp) - this.net.current(this.circuit.pullDown);
   }
 
   vout(vin: number): number {
