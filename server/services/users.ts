@@ -48,7 +48,8 @@ export async function updateTeamUser(
   change: { roles?: Role[]; disabled?: boolean },
 ): Promise<AdminUser> {
   const updated = await ctx.sequelize.transaction(async (transaction) => {
-    const user = await User.findOne({ where: { id: userId, teamId: actor.teamId }, ...withTeam, transaction, lock: transaction.LOCK.UPDATE });
+    // FOR UPDATE cannot lock the outer side of the team join: lock the user row alone, then load its team.
+    const user = await User.findOne({ where: { id: userId, teamId: actor.teamId }, transaction, lock: transaction.LOCK.UPDATE });
     if (!user) throw notFound('User');
     if (user.id === actor.id && change.disabled === true) throw conflict('You cannot disable your own account.');
     if (user.id === actor.id && change.roles && !change.roles.includes('admin')) {
@@ -58,6 +59,7 @@ export async function updateTeamUser(
     if (change.roles) user.roles = [...new Set(change.roles)];
     if (change.disabled !== undefined) user.disabled = change.disabled;
     await user.save({ transaction });
+    user.team = await Team.findByPk(actor.teamId, { transaction });
     await recordAudit(
       {
         teamId: actor.teamId,

@@ -1,0 +1,73 @@
+// Every API route and the permission it needs, for the table-driven check in
+// permissions.test.ts. Adding a route? Append one entry here: the test then tries
+// it as every role and as nobody, and expects 401 for nobody, 403 for each role
+// that shared/roles.ts PERMISSIONS does not grant, and neither for the others.
+//
+// `path` and `body` may create what the route needs (a block, a run, …) through
+// the fixture: they run once per attempt, so a route that creates something can
+// be given a fresh name each time.
+
+import crypto from 'node:crypto';
+import type { Permission } from '../../shared/roles';
+import type { Team } from '../../server/db/models';
+import { MailMessage } from '../../server/db/models';
+import { createUser, uniqueEmail, type CreatedUser, type TestEnv } from './helpers';
+
+export interface RouteFixture {
+  env: TestEnv;
+  /** The team every attempting user belongs to. */
+  team: Team;
+  /** A block of that team. */
+  blockId: string;
+  /** A team member the admin routes may change. */
+  member: CreatedUser;
+  /** An outbox message of the team. */
+  messageId: string;
+}
+
+export interface RouteCase {
+  method: 'get' | 'post' | 'patch' | 'put' | 'delete';
+  path: string | ((fx: RouteFixture) => string | Promise<string>);
+  /** `signed-in`: any signed-in user; `public`: no sign-in needed (not tried for 401). */
+  permission: Permission | 'signed-in' | 'public';
+  body?: (fx: RouteFixture) => object | Promise<object>;
+}
+
+const unique = (label: string) => `${label}-${crypto.randomBytes(4).toString('hex')}`;
+
+export const ROUTES: RouteCase[] = [
+  { method: 'get', path: '/api/health', permission: 'public' },
+  { method: 'get', path: '/api/auth/me', permission: 'signed-in' },
+
+  { method: 'get', path: '/api/admin/users', permission: 'user.manage' },
+  {
+    method: 'post',
+    path: '/api/admin/invitations',
+    permission: 'user.manage',
+    body: () => ({ email: uniqueEmail('invitee'), name: 'Invited Person', roles: ['designer'] }),
+  },
+  { method: 'patch', path: (fx) => `/api/admin/users/${fx.member.user.id}`, permission: 'user.manage', body: () => ({ disabled: false }) },
+  { method: 'get', path: '/api/admin/outbox', permission: 'outbox.read' },
+  { method: 'get', path: (fx) => `/api/admin/outbox/${fx.messageId}`, permission: 'outbox.read' },
+
+  { method: 'get', path: '/api/blocks', permission: 'design.read' },
+  { method: 'post', path: '/api/blocks', permission: 'block.create', body: () => ({ name: unique('block'), description: 'made by the permission table' }) },
+  { method: 'get', path: (fx) => `/api/blocks/${fx.blockId}`, permission: 'design.read' },
+
+  { method: 'get', path: '/api/audit', permission: 'audit.read' },
+];
+
+export async function makeRouteFixture(env: TestEnv, team: Team, blockId: string): Promise<RouteFixture> {
+  const member = await createUser({ team, roles: ['designer'] });
+  const message = await MailMessage.create({
+    teamId: team.id,
+    to: member.email,
+    subject: 'fixture message',
+    text: 'fixture',
+    html: null,
+    status: 'sent',
+    error: null,
+    sentAt: new Date(),
+  });
+  return { env, team, blockId, member, messageId: message.id };
+}
