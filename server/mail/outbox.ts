@@ -153,6 +153,8 @@ export class Outbox {
       } else {
         const delay = this.options.retrySeconds * 4 ** (row.attempts - 1);
         await MailMessage.update({ error: message, nextAttemptAt: new Date(Date.now() + delay * 1000) }, { where: { id: row.id } });
+        // Come back when the retry is due rather than at the next poll.
+        setTimeout(() => this.kick(), delay * 1000 + 10).unref();
       }
     }
   }
