@@ -16,6 +16,10 @@
 import { brent } from './roots';
 import { channelCurrent, type MosModel } from './mos';
 
+/** Network ends standing for the supply and ground rails in networks over cell nets (whatever rail nets a cell has). */
+export const POWER_END = -1;
+export const GROUND_END = -2;
+
 export type Network =
   | { kind: 'leaf'; element: number; a: number; b: number }
   | { kind: 'series'; a: number; b: number; children: Network[]; nodes: number[] }

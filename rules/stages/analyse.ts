@@ -13,7 +13,7 @@ import type { Corner, Deck } from '../../shared/deck';
 import type { CircuitElement, Network } from '../electrical/network';
 import { mapNetwork } from '../electrical/network';
 import { ModelResolver, type ResolvedModel } from '../electrical/parameters';
-import { analyseTransfer, FIRST_INTERNAL, GROUND, INPUT, OUTPUT, POWER, type StageCircuit, type TransferResult } from '../electrical/transfer';
+import { analyseTransfer, FIRST_INTERNAL, GROUND, INPUT, OUTPUT, POWER, TransferSolver, type StageCircuit, type TransferResult } from '../electrical/transfer';
 import { outputValue, stageLogic } from './classify';
 import type { Stage } from './stage';
 import { GROUND_END, POWER_END } from './stage';
@@ -257,4 +257,17 @@ export function analyseStage(env: StageEnvironment, stage: Stage): StageAnalysis
     inputs.push({ input, corners });
   }
   return { stage, inputs, skipped: inputs.length ? null : 'no input controls the output on its own' };
+}
+
+/** Vout(Vin) of one stage, swept input and held inputs given, at one corner (exact solves, for chains). */
+export function stageTransferFunction(
+  env: StageEnvironment,
+  stage: Stage,
+  swept: number,
+  held: readonly HeldInput[],
+  corner: Corner,
+): (vin: number) => number {
+  const resolver = resolverFor(memoOf(env.design), env.design, corner, env.deck.useNetlistModels);
+  const solver = new TransferSolver(stageCircuit(env, stage, swept, held, resolver, corner.vdd).circuit);
+  return (vin) => solver.vout(vin);
 }

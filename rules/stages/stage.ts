@@ -4,9 +4,7 @@
 import type { SourceLoc } from '../../grammar/design';
 import type { Network } from '../electrical/network';
 
-/** Network ends standing for the supply and ground rails (whatever rail nets a cell has). */
-export const POWER_END = -1;
-export const GROUND_END = -2;
+export { POWER_END, GROUND_END } from '../electrical/network';
 
 export type StageKind =
   /** One input, complementary single-device (or parallel-finger) pull-up and pull-down. */
