@@ -67,8 +67,9 @@ export const errorHandler: ErrorRequestHandler = (err, req, res, next) => {
     res.status(413).json(errorBody('payload-too-large', 'The request body is too large.'));
     return;
   }
-  if (typeof e.status === 'number' && e.status >= 400 && e.status < 500 && e.expose) {
-    res.status(e.status).json(errorBody('bad-request', 'The request could not be read.'));
+  if (typeof e.status === 'number' && e.status >= 400 && e.status < 500) {
+    const code = e.status === 404 ? 'not-found' : e.status === 415 ? 'unsupported-media-type' : 'bad-request';
+    res.status(e.status).json(errorBody(code, e.status === 404 ? 'Not found.' : 'The request could not be read.'));
     return;
   }
   if (isUnavailable(err)) {

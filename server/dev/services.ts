@@ -151,6 +151,7 @@ function layout(config: Config): Layout {
     // postgres user; keep the cluster in a per-checkout folder it can reach.
     const tag = crypto.createHash('sha256').update(config.dataDir).digest('hex').slice(0, 12);
     pgHome = path.join('/var/tmp', `keepwell-${tag}`, 'postgres');
+    if (!fs.existsSync(pgHome)) log(`${config.dataDir} is not reachable by the postgres user; the cluster lives in ${pgHome}`);
   }
   return {
     config,
@@ -236,6 +237,8 @@ export function superuserUrl(config: Config = loadConfig(), database = 'postgres
 }
 
 async function initCluster(l: Layout, bin: string): Promise<void> {
+  // Parents stay searchable (0755): the postgres user must walk through them.
+  fs.mkdirSync(path.dirname(l.pgHome), { recursive: true, mode: 0o755 });
   fs.mkdirSync(l.pgHome, { recursive: true, mode: 0o700 });
   if (l.owner) fs.chownSync(l.pgHome, l.owner.uid, l.owner.gid);
   fs.chmodSync(l.pgHome, 0o700);
