@@ -67,22 +67,38 @@ export interface StageAnalysis {
 export interface AnalysisStats {
   /** Transfer curves actually solved. */
   solves: number;
-  /** Lookups answered from the memo. */
+  /** Transfer lookups answered from the memo. */
   hits: number;
+  /** Distinct stage signatures analysed. */
+  signatures: number;
 }
 
 interface DesignMemo {
   transfers: Map<string, TransferResult>;
+  /** Per deck: structural stage key → analysis with inputs by position. */
+  stages: WeakMap<Deck, Map<string, CachedStage>>;
   stats: AnalysisStats;
   resolvers: Map<Corner, Map<boolean, ModelResolver>>;
   modelKeys: Map<ResolvedModel, string>;
+}
+
+interface CachedCase {
+  held: { input: number; high: boolean }[];
+  result: TransferResult;
+}
+
+interface CachedStage {
+  inputs: { input: number; corners: { corner: string; vdd: number; cases: CachedCase[]; worstMargin: number; weakestGain: number; models: ModelUse[] }[] }[];
 }
 
 const memos = new WeakMap<Design, DesignMemo>();
 
 function memoOf(design: Design): DesignMemo {
   let m = memos.get(design);
-  if (!m) memos.set(design, (m = { transfers: new Map(), stats: { solves: 0, hits: 0 }, resolvers: new Map(), modelKeys: new Map() }));
+  if (!m) {
+    m = { transfers: new Map(), stages: new WeakMap(), stats: { solves: 0, hits: 0, signatures: 0 }, resolvers: new Map(), modelKeys: new Map() };
+    memos.set(design, m);
+  }
   return m;
 }
 
@@ -221,18 +237,54 @@ export function marginOf(r: TransferResult): number {
   return r.nmh === null || r.nml === null ? -Infinity : Math.min(r.nmh, r.nml);
 }
 
-export function analyseStage(env: StageEnvironment, stage: Stage): StageAnalysis {
-  if (!STATIC_KINDS.has(stage.kind)) return { stage, inputs: [], skipped: `${stage.kind} stage: no static transfer curve` };
-  if (!stage.pullUp || !stage.pullDown) return { stage, inputs: [], skipped: 'networks are not series/parallel' };
-  const memo = memoOf(env.design);
-  const inputs: InputAnalysis[] = [];
-  for (const input of stage.inputs) {
+/**
+ * A stage's signature, independent of net names and of the corner: kind, each element's type, size, model name and the
+ * roles of its gate and bulk (rail, output, input by position, internal node by first use), and the network shapes.
+ * Stages with equal signatures have equal analyses under one deck.
+ */
+export function stageSignature(env: StageEnvironment, stage: Stage): string {
+  const { cell, railOf, alias } = env;
+  const local = new Map<number, string>();
+  const role = (net: number): string => {
+    if (net === POWER_END) return 'P';
+    if (net === GROUND_END) return 'G';
+    const r = railOf(net);
+    if (r) return r === 'power' ? 'P' : 'G';
+    if (net === stage.output) return 'o';
+    const i = stage.inputs.indexOf(net);
+    if (i >= 0) return 'i' + i;
+    let x = local.get(net);
+    if (x === undefined) local.set(net, (x = 'n' + local.size));
+    return x;
+  };
+  const parts: string[] = [stage.kind];
+  for (const el of stage.elements) {
+    if (el.kind === 'res') {
+      const r = cell.others[el.index];
+      parts.push('r' + (r.kind === 'res' ? r.value : 0));
+    } else {
+      const m = cell.mosfets[el.index];
+      parts.push(`${m.polarity}${m.w},${m.l},${m.m},${m.model.toLowerCase()},${role(alias[m.gate])},${role(alias[m.bulk])}`);
+    }
+  }
+  const shape = (n: Network): string => {
+    if (n.kind === 'leaf') return `${n.element}:${role(n.a)}-${role(n.b)}`;
+    const inner = n.children.map(shape).join(' ');
+    return n.kind === 'series' ? `S(${inner})[${n.nodes.map(role).join(',')}]` : `P(${inner})`;
+  };
+  parts.push(stage.pullUp ? shape(stage.pullUp) : '-', stage.pullDown ? shape(stage.pullDown) : '-');
+  return parts.join(';');
+}
+
+function solveStage(env: StageEnvironment, stage: Stage, memo: DesignMemo): CachedStage {
+  const inputs: CachedStage['inputs'] = [];
+  stage.inputs.forEach((input, inputIndex) => {
     const cases = sensitisingCases(env, stage, input);
-    if (!cases.length) continue;
-    const corners: CornerAnalysis[] = [];
+    if (!cases.length) return;
+    const corners: CachedStage['inputs'][number]['corners'] = [];
     for (const corner of env.deck.corners) {
       const resolver = resolverFor(memo, env.design, corner, env.deck.useNetlistModels);
-      const solved: TransferCase[] = [];
+      const solved: CachedCase[] = [];
       let models: ModelUse[] = [];
       for (const held of cases) {
         const built = stageCircuit(env, stage, input, held, resolver, corner.vdd, memo);
@@ -244,18 +296,41 @@ export function analyseStage(env: StageEnvironment, stage: Stage): StageAnalysis
           memo.transfers.set(built.key, result);
           memo.stats.solves++;
         }
-        solved.push({ held, result });
+        solved.push({ held: held.map((h) => ({ input: stage.inputs.indexOf(h.net), high: h.high })), result });
       }
-      let worstMargin = solved[0];
-      let weakestGain = solved[0];
-      for (const c of solved) {
-        if (marginOf(c.result) < marginOf(worstMargin.result)) worstMargin = c;
-        if (Math.abs(c.result.gainAtVm) < Math.abs(weakestGain.result.gainAtVm)) weakestGain = c;
-      }
+      let worstMargin = 0;
+      let weakestGain = 0;
+      solved.forEach((c, i) => {
+        if (marginOf(c.result) < marginOf(solved[worstMargin].result)) worstMargin = i;
+        if (Math.abs(c.result.gainAtVm) < Math.abs(solved[weakestGain].result.gainAtVm)) weakestGain = i;
+      });
       corners.push({ corner: corner.name, vdd: corner.vdd, cases: solved, worstMargin, weakestGain, models });
     }
-    inputs.push({ input, corners });
+    inputs.push({ input: inputIndex, corners });
+  });
+  return { inputs };
+}
+
+export function analyseStage(env: StageEnvironment, stage: Stage): StageAnalysis {
+  if (!STATIC_KINDS.has(stage.kind)) return { stage, inputs: [], skipped: `${stage.kind} stage: no static transfer curve` };
+  if (!stage.pullUp || !stage.pullDown) return { stage, inputs: [], skipped: 'networks are not series/parallel' };
+  const memo = memoOf(env.design);
+  let byDeck = memo.stages.get(env.deck);
+  if (!byDeck) memo.stages.set(env.deck, (byDeck = new Map()));
+  const signature = stageSignature(env, stage);
+  let cached = byDeck.get(signature);
+  if (!cached) {
+    cached = solveStage(env, stage, memo);
+    byDeck.set(signature, cached);
+    memo.stats.signatures++;
   }
+  const inputs: InputAnalysis[] = cached.inputs.map((ci) => ({
+    input: stage.inputs[ci.input],
+    corners: ci.corners.map((c) => {
+      const cases: TransferCase[] = c.cases.map((x) => ({ held: x.held.map((h) => ({ net: stage.inputs[h.input], high: h.high })), result: x.result }));
+      return { corner: c.corner, vdd: c.vdd, cases, worstMargin: cases[c.worstMargin], weakestGain: cases[c.weakestGain], models: c.models };
+    }),
+  }));
   return { stage, inputs, skipped: inputs.length ? null : 'no input controls the output on its own' };
 }
 

@@ -272,7 +272,8 @@ export function extractStages(cell: Cell, rails: readonly (RailKind | undefined)
       if (info.power && !info.ground) up.push(...info.edges);
       else if (info.ground && !info.power) down.push(...info.edges);
       else if (info.power && info.ground) {
-        const split = splitMixed(info.edges, out);
+        // Joined through the output itself (an output found by `guessOutput`), or a secondary precharge on a stack node.
+        const split = splitAt(info.edges, out) ?? splitMixed(info.edges, out);
         if (!split) {
           ok = false;
           notes.push('a path joins the rails without passing through the output');
@@ -280,7 +281,7 @@ export function extractStages(cell: Cell, rails: readonly (RailKind | undefined)
         }
         up.push(...split.up);
         down.push(...split.down);
-        auxiliary.push(...split.auxiliary);
+        if ('auxiliary' in split) auxiliary.push(...split.auxiliary);
       }
     }
     const local = new Map<number, number>();
