@@ -37,3 +37,4 @@ export function stageAnalysesOf(ctx: CellContext): StageAnalysis[] {
     return stages.stages.map((s) => analyseStage(env, s));
   });
 }
+export * from './report';

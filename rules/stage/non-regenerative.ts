@@ -1,0 +1,54 @@
+import { z } from 'zod';
+import { defineRule } from '../types';
+import { heldText, sourcesText, stageAnalysesOf, stageDeviceNames, stageLabel, transferPlot, volts } from '../stages';
+
+export default defineRule({
+  meta: {
+    id: 'stage.non-regenerative',
+    title: 'Stage does not restore levels',
+    area: 'stage',
+    rationale:
+      'A stage pushes a disturbed level back towards the rails only if the magnitude of its gain at its switching threshold exceeds one. ' +
+      'Below that, noise passed through a chain of such stages grows or settles mid-rail instead of dying out, and the logic fails.',
+    fix: 'Replace the load with a complementary or properly ratioed pull-up, or follow the stage with a restoring (CMOS) stage before the next logic input.',
+    defaultSeverity: 'error',
+  },
+  params: z.object({
+    minGain: z
+      .number()
+      .min(0)
+      .max(100)
+      .default(1)
+      .meta({ unit: 'V/V', label: 'Smallest gain magnitude at the switching threshold' }),
+  }),
+  // One finding per static stage, for its weakest input, case and corner; anchored at the stage's first device line in netlist order.
+  check(ctx, p, report) {
+    const cell = ctx.cell;
+    for (const a of stageAnalysesOf(ctx)) {
+      let worst: { gain: number; input: number; corner: (typeof a.inputs)[number]['corners'][number] } | null = null;
+      for (const inp of a.inputs) {
+        for (const c of inp.corners) {
+          const g = Math.abs(c.weakestGain.result.gainAtVm);
+          if (!worst || g < worst.gain) worst = { gain: g, input: inp.input, corner: c };
+        }
+      }
+      if (!worst || worst.gain > p.minGain) continue;
+      const st = a.stage;
+      const r = worst.corner.weakestGain.result;
+      const held = heldText(cell, worst.corner.weakestGain.held);
+      report({
+        message:
+          `${stageLabel(cell, st)} has gain ${r.gainAtVm.toFixed(2)} V/V at its switching threshold ${volts(r.vm)} ` +
+          `(input ${cell.nets[worst.input]}${held ? `, ${held}` : ''}; corner ${worst.corner.corner}), at or below ${p.minGain} in magnitude: ` +
+          `a disturbed level is not restored. Device values: ${sourcesText(worst.corner)}.`,
+        loc: st.anchor,
+        nets: [...(st.output === null ? [] : [cell.nets[st.output]]), ...st.inputs.map((n) => cell.nets[n])],
+        devices: stageDeviceNames(cell, st),
+        measured: { value: worst.gain, unit: 'V/V' },
+        limit: { value: p.minGain, unit: 'V/V' },
+        corner: worst.corner.corner,
+        plot: transferPlot(r),
+      });
+    }
+  },
+});
