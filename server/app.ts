@@ -14,6 +14,8 @@ import { requestLog } from './api/middleware/request-log';
 export interface AppOptions {
   /** Folder of the built client (dist/client); omitted, only /api is served. */
   clientDir?: string;
+  /** Where request-log lines go when KEEPWELL_LOG_REQUESTS is on (stdout by default). */
+  logLine?: (line: string) => void;
 }
 
 export function createApp(ctx: AppContext, options: AppOptions = {}): Express {
@@ -30,7 +32,7 @@ export function createApp(ctx: AppContext, options: AppOptions = {}): Express {
   });
 
   const api = express.Router();
-  if (config.logRequests) api.use(requestLog());
+  if (config.logRequests) api.use(requestLog(options.logLine));
   api.use((_req, res, next) => {
     res.setHeader('Cache-Control', 'no-store');
     next();
