@@ -8,8 +8,8 @@ import { QueryTypes } from 'sequelize';
 import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest';
 import { healthSchema } from '../../shared/api/audit';
 import { loadConfig } from '../../server/config';
-import { restartRedis, servicesStatus, startServices, stopRedis, startRedis } from '../../server/dev/services';
-import { startTestEnv, type TestEnv } from './helpers';
+import { restartRedis, servicesStatus, startPostgres, startServices, stopPostgres, stopRedis, startRedis } from '../../server/dev/services';
+import { createTeam, signedInAs, startTestEnv, type TestEnv } from './helpers';
 
 let env: TestEnv;
 const serviceConfig = loadConfig({ ...process.env, NODE_ENV: 'test' });
@@ -18,6 +18,7 @@ beforeAll(async () => {
   env = await startTestEnv();
 });
 afterAll(async () => {
+  await startPostgres(serviceConfig);
   await startRedis(serviceConfig);
   await env?.close();
 });
@@ -70,5 +71,24 @@ describe('local services', () => {
       await startRedis(serviceConfig);
     }
     await waitUntil(async () => (await env.agent().get('/api/health')).status === 200);
+  });
+
+  it('while PostgreSQL is down the API answers 503 unavailable, and it recovers with the data intact', async () => {
+    const team = await createTeam();
+    const designer = await signedInAs(env, team, ['designer']);
+    await designer.agent.post('/api/blocks').send({ name: 'survives-restart' }).expect(201);
+    // "immediate" is PostgreSQL's crash-like stop (pg_ctl docs): no checkpoint, recovery from the WAL at start.
+    await stopPostgres(serviceConfig, 'immediate');
+    try {
+      const health = await env.agent().get('/api/health').expect(503);
+      expect(health.body).toEqual({ ok: false, postgres: false, redis: true });
+      const res = await designer.agent.get('/api/blocks').expect(503);
+      expect(res.body.error.code).toBe('unavailable');
+    } finally {
+      await startPostgres(serviceConfig);
+    }
+    await waitUntil(async () => (await designer.agent.get('/api/blocks')).status === 200);
+    const list = await designer.agent.get('/api/blocks').expect(200);
+    expect(list.body.items.map((b: { name: string }) => b.name)).toEqual(['survives-restart']);
   });
 });
