@@ -40,66 +40,66 @@ function Sidebar() {
   const account = ACCOUNT_NAVIGATION.filter((i) => can(user.roles, i.permission));
 
   return (
-    <aside className="kw-no-print sticky top-0 flex h-screen w-60 shrink-0 flex-col border-r border-ink-200 bg-white">
-      <div className="flex h-16 items-center px-5">
-        <NavLink to="/" className="rounded-sm" aria-label="Keepwell overview">
-          <Logotype size={26} />
-        </NavLink>
-      </div>
-      {user.teamName && (
-        <div className="mx-3 mb-2 rounded-md border border-ink-200 bg-ink-50 px-2.5 py-2">
-          <p className="text-[11px] font-semibold uppercase tracking-wider text-ink-500">Team</p>
-          <p className="truncate text-sm font-medium text-ink-900" title={user.teamName}>
-            {user.teamName}
-          </p>
+    <div className="kw-no-print w-60 shrink-0 border-r border-ink-200 bg-white">
+      <aside className="sticky top-0 flex h-screen flex-col">
+        <div className="flex h-16 items-center px-5">
+          <NavLink to="/" className="rounded-sm" aria-label="Keepwell overview">
+            <Logotype size={26} />
+          </NavLink>
         </div>
-      )}
-      <nav aria-label="Main" className="flex-1 overflow-y-auto px-3 py-2">
-        {groups.map((group) => (
-          <div key={group.label} className="mb-4">
-            <h2 className="mb-1 px-2.5 text-[11px] font-semibold uppercase tracking-wider text-ink-500">{group.label}</h2>
-            <ul className="space-y-0.5">
-              {group.items.map((item) => (
-                <NavEntry key={item.to} item={item} />
-              ))}
-            </ul>
+        {user.teamName && (
+          <div className="mx-3 mb-2 rounded-md border border-ink-200 bg-ink-50 px-2.5 py-2">
+            <p className="text-[11px] font-semibold uppercase tracking-wider text-ink-500">Team</p>
+            <p className="text-sm font-medium leading-snug text-ink-900">{user.teamName}</p>
           </div>
-        ))}
-      </nav>
-      <div className="border-t border-ink-200 p-3">
-        {account.length > 0 && (
-          <nav aria-label="Account" className="mb-2">
-            <ul className="space-y-0.5">
-              {account.map((item) => (
-                <NavEntry key={item.to} item={item} />
-              ))}
-            </ul>
-          </nav>
         )}
-        <div className="flex items-center gap-2.5 rounded-md px-1.5 py-1.5">
-          <span aria-hidden="true" className="flex size-8 shrink-0 items-center justify-center rounded-full bg-well-700 text-xs font-semibold text-white">
-            {initials(user.name)}
-          </span>
-          <div className="min-w-0 flex-1" aria-label="Signed in as">
-            <p className="truncate text-sm font-medium text-ink-900" title={user.email}>
-              {user.name}
-            </p>
-            <p className="truncate text-xs text-ink-500" data-testid="user-roles">
-              {user.roles.map((r) => ROLE_LABELS[r]).join(', ')}
-            </p>
+        <nav aria-label="Main" className="flex-1 overflow-y-auto px-3 py-2">
+          {groups.map((group) => (
+            <div key={group.label} className="mb-4">
+              <h2 className="mb-1 px-2.5 text-[11px] font-semibold uppercase tracking-wider text-ink-500">{group.label}</h2>
+              <ul className="space-y-0.5">
+                {group.items.map((item) => (
+                  <NavEntry key={item.to} item={item} />
+                ))}
+              </ul>
+            </div>
+          ))}
+        </nav>
+        <div className="border-t border-ink-200 p-3">
+          {account.length > 0 && (
+            <nav aria-label="Account" className="mb-2">
+              <ul className="space-y-0.5">
+                {account.map((item) => (
+                  <NavEntry key={item.to} item={item} />
+                ))}
+              </ul>
+            </nav>
+          )}
+          <div className="flex items-center gap-2.5 rounded-md px-1.5 py-1.5">
+            <span aria-hidden="true" className="flex size-8 shrink-0 items-center justify-center rounded-full bg-well-700 text-xs font-semibold text-white">
+              {initials(user.name)}
+            </span>
+            <div className="min-w-0 flex-1" aria-label="Signed in as">
+              <p className="truncate text-sm font-medium text-ink-900" title={user.email}>
+                {user.name}
+              </p>
+              <p className="truncate text-xs text-ink-500" data-testid="user-roles">
+                {user.roles.map((r) => ROLE_LABELS[r]).join(', ')}
+              </p>
+            </div>
           </div>
+          <button
+            type="button"
+            onClick={() => signOut.mutate(undefined, { onSettled: () => navigate('/sign-in', { replace: true }) })}
+            disabled={signOut.isPending}
+            className="mt-1 flex w-full items-center gap-2.5 rounded-md px-2.5 py-1.5 text-sm font-medium text-ink-700 hover:bg-ink-100 hover:text-ink-900"
+          >
+            <Icon name="signOut" className="size-4 text-ink-500" />
+            Sign out
+          </button>
         </div>
-        <button
-          type="button"
-          onClick={() => signOut.mutate(undefined, { onSettled: () => navigate('/sign-in', { replace: true }) })}
-          disabled={signOut.isPending}
-          className="mt-1 flex w-full items-center gap-2.5 rounded-md px-2.5 py-1.5 text-sm font-medium text-ink-700 hover:bg-ink-100 hover:text-ink-900"
-        >
-          <Icon name="signOut" className="size-4 text-ink-500" />
-          Sign out
-        </button>
-      </div>
-    </aside>
+      </aside>
+    </div>
   );
 }
 

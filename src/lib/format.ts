@@ -1,17 +1,23 @@
-const dateTime = new Intl.DateTimeFormat('en-GB', { day: 'numeric', month: 'short', year: 'numeric', hour: '2-digit', minute: '2-digit' });
-const dateOnly = new Intl.DateTimeFormat('en-GB', { day: 'numeric', month: 'short', year: 'numeric' });
+// Dates as engineers write them (ISO 8601 order, 24-hour clock), in the reader's time zone.
 
-/** `4 Dec 2025, 09:41` in the reader's time zone; an em dash for a missing value. */
-export function formatDateTime(iso: string | null | undefined): string {
-  if (!iso) return '—';
+const pad = (n: number) => String(n).padStart(2, '0');
+
+function parse(iso: string | null | undefined): Date | null {
+  if (!iso) return null;
   const date = new Date(iso);
-  return Number.isNaN(date.getTime()) ? '—' : dateTime.format(date);
+  return Number.isNaN(date.getTime()) ? null : date;
 }
 
+/** `2025-12-04 09:41`; an em dash for a missing value. */
+export function formatDateTime(iso: string | null | undefined): string {
+  const d = parse(iso);
+  return d ? `${formatDate(iso)} ${pad(d.getHours())}:${pad(d.getMinutes())}` : '—';
+}
+
+/** `2025-12-04`; an em dash for a missing value. */
 export function formatDate(iso: string | null | undefined): string {
-  if (!iso) return '—';
-  const date = new Date(iso);
-  return Number.isNaN(date.getTime()) ? '—' : dateOnly.format(date);
+  const d = parse(iso);
+  return d ? `${d.getFullYear()}-${pad(d.getMonth() + 1)}-${pad(d.getDate())}` : '—';
 }
 
 export function initials(name: string): string {

@@ -9,7 +9,7 @@ import { isApiError } from '../../lib/api';
 import { formResolver } from '../../lib/form';
 import { useInvite } from './queries';
 
-export const ROLE_DESCRIPTIONS: Record<Role, string> = {
+const ROLE_DESCRIPTIONS: Record<Role, string> = {
   designer: 'Creates blocks, submits runs, asks for waivers.',
   methodology: 'Edits and publishes rule decks; may also submit runs.',
   reviewer: 'Approves or rejects waivers; reads the audit trail.',

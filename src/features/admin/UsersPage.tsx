@@ -15,7 +15,7 @@ import { ToneBadge, type Tone } from '../../design/severity';
 import { useDocumentTitle } from '../../lib/document-title';
 import { formatDateTime } from '../../lib/format';
 import { useCan, useCurrentUser } from '../../lib/session';
-import { InviteForm, ROLE_DESCRIPTIONS } from './InviteForm';
+import { InviteForm } from './InviteForm';
 import { adminUsersQuery, useUpdateUser } from './queries';
 
 const STATUS: Record<AdminUser['status'], { tone: Tone; label: string }> = {
@@ -57,7 +57,7 @@ function RoleEditor({ user, isSelf, onClose }: { user: AdminUser; isSelf: boolea
           <Checkbox
             key={role}
             label={ROLE_LABELS[role]}
-            description={ownAdmin ? 'You cannot remove your own administrator role.' : ROLE_DESCRIPTIONS[role]}
+            description={ownAdmin ? 'You cannot remove your own administrator role.' : undefined}
             checked={roles.includes(role)}
             disabled={ownAdmin}
             onChange={(e) => toggle(role, e.target.checked)}
@@ -89,7 +89,7 @@ function AccessToggle({ user }: { user: AdminUser }) {
     );
   if (!confirming)
     return (
-      <Button size="sm" variant="danger" onClick={() => setConfirming(true)}>
+      <Button size="sm" onClick={() => setConfirming(true)}>
         Disable…
       </Button>
     );

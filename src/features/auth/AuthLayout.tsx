@@ -75,7 +75,7 @@ export function AuthLayout({ title, intro, children, footer }: { title: string; 
 
 export function AuthLink({ to, children }: { to: string; children: ReactNode }) {
   return (
-    <Link to={to} className="font-medium text-well-700 underline-offset-2 hover:text-well-800 hover:underline">
+    <Link to={to} className="text-sm font-medium text-well-700 underline-offset-2 hover:text-well-800 hover:underline">
       {children}
     </Link>
   );

@@ -116,6 +116,7 @@ export default function NetlistEditor({
           contextmenu: true,
           fixedOverflowWidgets: true,
           padding: { top: 8, bottom: 8 },
+          unicodeHighlight: { ambiguousCharacters: true, invisibleCharacters: true, nonBasicASCII: false, includeComments: false, includeStrings: true },
         }}
       />
     </div>

@@ -15,6 +15,9 @@ import 'monaco-editor/features/clipboard/register';
 import 'monaco-editor/features/gotoLine/register';
 import 'monaco-editor/features/lineSelection/register';
 import 'monaco-editor/features/readOnlyMessage/register';
+// Look-alike and invisible characters in a netlist silently make a second net (`vdd` with a
+// Cyrillic `d`, a no-break space inside a name): the editor marks them, computed in the worker.
+import 'monaco-editor/features/unicodeHighlighter/register';
 import EditorWorker from 'monaco-editor/editor/editor.worker?worker';
 import { SPICE_LANGUAGE_ID, spiceLanguage, spiceLanguageConfiguration } from './spice-language';
 import { NETLIST_THEME, netlistTheme } from './theme';
