@@ -44,6 +44,8 @@ async function waitForHealth(url: string, child: ChildProcess, timeoutMs = 60_00
 
 async function main(argv: string[]): Promise<number> {
   const dev = argv.includes('--dev');
+  // With the Vite dev server in front, mail links and the origin check must name its address.
+  if (dev && !process.env.PUBLIC_URL) process.env.PUBLIC_URL = 'http://127.0.0.1:5173';
   const config = getConfig();
 
   say('starting PostgreSQL and Redis');
@@ -115,7 +117,7 @@ async function main(argv: string[]): Promise<number> {
     stopAll();
     return 1;
   }
-  const openUrl = dev && hasClient ? 'http://127.0.0.1:5173' : config.publicUrl;
+  const openUrl = config.publicUrl;
   process.stdout.write(`\nKeepwell is running at ${openUrl}\n\n${demoSignInText(openUrl)}\n\n`);
   process.stdout.write('Mail sent in development is captured, not delivered: see the admin outbox or .data/mail/.\n');
   process.stdout.write('Findings support design review; they never replace the foundry\u2019s rules or the team\u2019s sign-off.\n\n');
