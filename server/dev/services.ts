@@ -183,7 +183,12 @@ async function withLock<T>(config: Config, fn: () => Promise<T>): Promise<T> {
       break;
     } catch (err) {
       if ((err as NodeJS.ErrnoException).code !== 'EEXIST') throw err;
-      const holder = Number(fs.readFileSync(lockFile, 'utf8').trim());
+      let holder = 0;
+      try {
+        holder = Number(fs.readFileSync(lockFile, 'utf8').trim());
+      } catch {
+        continue; // released between our attempt and the read
+      }
       if (!holder || !processAlive(holder)) {
         fs.rmSync(lockFile, { force: true });
         continue;
