@@ -189,7 +189,8 @@ async function withLock<T>(config: Config, fn: () => Promise<T>): Promise<T> {
       } catch {
         continue; // released between our attempt and the read
       }
-      if (!holder || !processAlive(holder)) {
+      const justCreated = !holder && Date.now() - (fs.statSync(lockFile, { throwIfNoEntry: false })?.mtimeMs ?? 0) < 5000;
+      if (!justCreated && (!holder || !processAlive(holder))) {
         fs.rmSync(lockFile, { force: true });
         continue;
       }
