@@ -29,6 +29,20 @@ function withDatabase(url: string, database: string): string {
   return u.toString();
 }
 
+/** A run killed before its teardown leaves its database behind; remove such idle ones older than a day. */
+async function dropAbandonedDatabases(admin: pg.Client): Promise<void> {
+  const { rows } = await admin.query<{ datname: string; comment: string | null }>(
+    `select datname, shobj_description(d.oid, 'pg_database') as comment from pg_database d
+     where datname like 'keepwell\\_test\\_%'
+       and not exists (select 1 from pg_stat_activity a where a.datname = d.datname)`,
+  );
+  for (const { datname, comment } of rows) {
+    const created = Date.parse(comment?.match(/created (\S+)$/)?.[1] ?? '');
+    const abandoned = Number.isNaN(created) || Date.now() - created > 24 * 3600 * 1000;
+    if (abandoned) await admin.query(`drop database if exists "${datname}" with (force)`).catch(() => {});
+  }
+}
+
 export default async function setup(project: TestProject) {
   const config = loadConfig({ ...process.env, NODE_ENV: 'test' });
   await startServices(config);
@@ -37,7 +51,9 @@ export default async function setup(project: TestProject) {
   const database = `keepwell_test_${tag}`;
   const admin = new pg.Client({ connectionString: config.databaseUrl });
   await admin.connect();
+  await dropAbandonedDatabases(admin);
   await admin.query(`create database ${database}`);
+  await admin.query(`comment on database ${database} is ${admin.escapeLiteral(`keepwell test database, created ${new Date().toISOString()}`)}`);
   await admin.end();
 
   const databaseUrl = withDatabase(config.databaseUrl, database);
