@@ -70,6 +70,8 @@ export interface Source {
   neg: number;
   /** DC value in volts or amperes when one is given. */
   dc?: number;
+  /** Transient function (`pulse`, `sin`, `pwl`, …) when one is given: such a source drives a signal (a clock), not a rail. */
+  waveform?: string;
   loc: SourceLoc;
 }
 

@@ -1,0 +1,101 @@
+// SPICE numbers: a decimal with an optional exponent, then an optional scale
+// factor, then any unit letters, which are ignored (SPICE3 convention shared by
+// every simulator): `10fF` is 10e-15, `1uA` is 1e-6, `1e+06u` is 1.
+// Scale factors: T G MEG K M(milli) U N P F A, and MIL (25.4 µm). `M` is milli,
+// `MEG` is mega — `1M` is 0.001, the classic trap. The micro sign `µ` counts as `u`.
+
+export type NumberResult = { ok: true; value: number } | { ok: false; reason: 'malformed' | 'non-finite' };
+
+const SCALE: Record<string, number> = {
+  t: 1e12,
+  g: 1e9,
+  k: 1e3,
+  m: 1e-3,
+  u: 1e-6,
+  µ: 1e-6,
+  μ: 1e-6,
+  n: 1e-9,
+  p: 1e-12,
+  f: 1e-15,
+  a: 1e-18,
+};
+
+function isDigit(c: number): boolean {
+  return c >= 48 && c <= 57;
+}
+
+function isLetter(c: number): boolean {
+  return (c >= 65 && c <= 90) || (c >= 97 && c <= 122) || c === 0xb5 || c === 0x3bc;
+}
+
+/** Whether a word starts like a number (so that a failure to read it is a malformed number, not a name). */
+export function looksNumeric(text: string): boolean {
+  let i = 0;
+  let c = text.charCodeAt(0);
+  if (c === 43 || c === 45) c = text.charCodeAt(++i);
+  if (c === 46) c = text.charCodeAt(++i);
+  return isDigit(c);
+}
+
+/** Read a whole word as a SPICE number. */
+export function parseSpiceNumber(text: string): NumberResult {
+  const n = text.length;
+  let i = 0;
+  let c = text.charCodeAt(0);
+  if (c === 43 || c === 45) i++;
+  let digits = 0;
+  while (i < n && isDigit(text.charCodeAt(i))) {
+    i++;
+    digits++;
+  }
+  if (i < n && text.charCodeAt(i) === 46) {
+    i++;
+    while (i < n && isDigit(text.charCodeAt(i))) {
+      i++;
+      digits++;
+    }
+  }
+  if (digits === 0) return { ok: false, reason: 'malformed' };
+  let end = i;
+  c = text.charCodeAt(i);
+  if (c === 101 || c === 69) {
+    // An exponent only when digits follow; otherwise the `e` is a unit letter.
+    let j = i + 1;
+    const s = text.charCodeAt(j);
+    if (s === 43 || s === 45) j++;
+    if (isDigit(text.charCodeAt(j))) {
+      while (j < n && isDigit(text.charCodeAt(j))) j++;
+      end = j;
+    }
+  }
+  let value = Number(text.slice(0, end));
+  // Suffix: letters only.
+  for (let k = end; k < n; k++) {
+    if (!isLetter(text.charCodeAt(k))) return { ok: false, reason: 'malformed' };
+  }
+  if (end < n) {
+    const suffix = text.slice(end, end + 3).toLowerCase();
+    if (suffix === 'meg') value *= 1e6;
+    else if (suffix === 'mil') value *= 25.4e-6;
+    else {
+      const scale = SCALE[suffix[0]];
+      if (scale !== undefined) value *= scale;
+    }
+  }
+  if (!Number.isFinite(value)) return { ok: false, reason: 'non-finite' };
+  return { ok: true, value };
+}
+
+/** A memo of parsed literals: netlists repeat the same few hundred values millions of times. */
+export class NumberCache {
+  private readonly cache = new Map<string, NumberResult>();
+
+  parse(text: string): NumberResult {
+    let r = this.cache.get(text);
+    if (r === undefined) {
+      r = parseSpiceNumber(text);
+      if (this.cache.size < 200_000) this.cache.set(text, r);
+    }
+    return r;
+  }
+}

@@ -1,0 +1,32 @@
+// Paths inside an uploaded set of files: forward slashes, relative, no `.` or `..`
+// segments. An include may only name a file of the set; a path that climbs out of
+// the set's root or is absolute is refused.
+
+/** Normalise a path given by a caller or written in a netlist; null when it leaves the root or is absolute. */
+export function normalizePath(path: string): string | null {
+  const p = path.replace(/\\/g, '/');
+  if (p.startsWith('/') || /^[A-Za-z]:\//.test(p) || p.startsWith('~')) return null;
+  const out: string[] = [];
+  for (const seg of p.split('/')) {
+    if (seg === '' || seg === '.') continue;
+    if (seg === '..') {
+      if (out.length === 0) return null;
+      out.pop();
+    } else out.push(seg);
+  }
+  return out.length ? out.join('/') : null;
+}
+
+export function dirname(path: string): string {
+  const i = path.lastIndexOf('/');
+  return i < 0 ? '' : path.slice(0, i);
+}
+
+/** Resolve an include written in `fromFile` (itself a normalised set path). */
+export function resolveInclude(fromFile: string, written: string): { path: string } | { outside: true } {
+  const raw = written.replace(/\\/g, '/');
+  if (raw.startsWith('/') || /^[A-Za-z]:\//.test(raw) || raw.startsWith('~')) return { outside: true };
+  const dir = dirname(fromFile);
+  const joined = normalizePath(dir ? `${dir}/${raw}` : raw);
+  return joined === null ? { outside: true } : { path: joined };
+}
