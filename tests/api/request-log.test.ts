@@ -30,13 +30,15 @@ describe('request log', () => {
     const agent = request.agent(server).set('Origin', PUBLIC_URL);
     const login = await agent.post('/api/auth/login').send({ email, password }).expect(200);
     const sessionId = String(login.headers['set-cookie']).split(';')[0].split('=')[1];
+    await request(server).get('/api/auth/me').expect(401);
     await agent.get('/api/blocks?search=secret-term').expect(200);
     await agent.get('/api/nowhere').expect(404);
 
-    expect(lines).toHaveLength(3);
-    expect(lines[0]).toMatch(/^\d{4}-\d\d-\d\dT[\d:.]+Z POST \/api\/auth\/login 200 \d+\.\dms user=-$/);
-    expect(lines[1]).toMatch(new RegExp(`^\\S+ GET /api/blocks 200 \\d+\\.\\dms user=${user.id}$`));
-    expect(lines[2]).toMatch(/ GET \/api\/nowhere 404 /);
+    expect(lines).toHaveLength(4);
+    expect(lines[0]).toMatch(new RegExp(`^\\d{4}-\\d\\d-\\d\\dT[\\d:.]+Z POST /api/auth/login 200 \\d+\\.\\dms user=${user.id}$`));
+    expect(lines[1]).toMatch(/ GET \/api\/auth\/me 401 [\d.]+ms user=-$/);
+    expect(lines[2]).toMatch(new RegExp(`^\\S+ GET /api/blocks 200 \\d+\\.\\dms user=${user.id}$`));
+    expect(lines[3]).toMatch(/ GET \/api\/nowhere 404 /);
     const all = lines.join('\n');
     for (const secret of [password, email, sessionId, 'secret-term']) expect(all).not.toContain(secret);
   });

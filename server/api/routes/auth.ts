@@ -1,6 +1,7 @@
 // /api/auth: sign in and out, who am I, password reset, accepting an invitation.
 
-import { Router } from 'express';
+import { Router, type Request, type Response } from 'express';
+import type { Session } from 'lucia';
 import {
   acceptInviteBodySchema,
   loginBodySchema,
@@ -8,6 +9,7 @@ import {
   resetRequestBodySchema,
 } from '../../../shared/api/auth';
 import type { AppContext } from '../../context';
+import type { User } from '../../db/models';
 import { acceptInvitation, checkCredentials, confirmPasswordReset, endSession, requestPasswordReset, startSession } from '../../services/auth';
 import { findUserView, userView } from '../../services/users';
 import { parseRequest, unauthenticated } from '../http';
@@ -22,8 +24,7 @@ export function authRoutes(ctx: AppContext): Router {
     const user = await checkCredentials(body.email, body.password);
     const previous = ctx.lucia.readSessionCookie(req.headers.cookie ?? '');
     const session = await startSession(ctx, user, previous);
-    setSessionCookie(ctx, req, res, session);
-    res.json({ user: userView(user) });
+    signInResponse(req, res, session, user);
   });
 
   router.post('/logout', async (req, res) => {
@@ -56,9 +57,15 @@ export function authRoutes(ctx: AppContext): Router {
     const user = await acceptInvitation(ctx, body.token, body.password);
     const previous = ctx.lucia.readSessionCookie(req.headers.cookie ?? '');
     const session = await startSession(ctx, user, previous);
-    setSessionCookie(ctx, req, res, session);
-    res.json({ user: userView(user) });
+    signInResponse(req, res, session, user);
   });
+
+  function signInResponse(req: Request, res: Response, session: Session, user: User): void {
+    setSessionCookie(ctx, req, res, session);
+    // From here on the request is the user's (the request log names them).
+    req.auth = { via: 'session', session, user: { id: user.id, email: user.email, name: user.name, roles: user.roles, teamId: user.teamId ?? null } };
+    res.json({ user: userView(user) });
+  }
 
   return router;
 }
