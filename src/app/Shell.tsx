@@ -122,7 +122,7 @@ export function Shell() {
     <div className="flex min-h-screen">
       <a
         href="#main"
-        className="sr-only z-50 rounded-md bg-well-800 px-3 py-2 text-sm font-medium text-white focus:not-sr-only focus:fixed focus:left-3 focus:top-3"
+        className="fixed left-3 top-3 z-50 -translate-y-24 rounded-md bg-well-800 px-3 py-2 text-sm font-medium text-white shadow-md focus:translate-y-0"
       >
         Skip to content
       </a>

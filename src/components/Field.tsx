@@ -6,7 +6,7 @@ function sentence(text: string) {
 
 const control =
   'block w-full rounded-md border bg-white px-3 text-sm text-ink-900 shadow-xs placeholder:text-ink-400 ' +
-  'focus:border-well-500 focus:outline-none focus-visible:outline-2 focus-visible:outline-well-500 ' +
+  'focus:border-well-600 focus-visible:outline-offset-1 ' +
   'disabled:bg-ink-100 disabled:text-ink-500';
 
 interface FieldShellProps {

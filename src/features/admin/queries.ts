@@ -1,5 +1,4 @@
 import { queryOptions, useMutation, useQueryClient } from '@tanstack/react-query';
-import { z } from 'zod';
 import { adminUserListSchema, adminUserResponseSchema, outboxMessageSchema, outboxPageSchema } from '../../../shared/api/admin';
 import type { Role } from '../../../shared/roles';
 import { api } from '../../lib/api';
@@ -34,13 +33,11 @@ export function useInvite() {
   });
 }
 
-const updateResponse = z.union([adminUserResponseSchema, z.undefined()]);
-
 export function useUpdateUser() {
   const queryClient = useQueryClient();
   return useMutation({
     mutationFn: ({ id, ...body }: { id: string; roles?: Role[]; disabled?: boolean }) =>
-      api.patch(`/api/admin/users/${encodeURIComponent(id)}`, body, { schema: updateResponse }),
+      api.patch(`/api/admin/users/${encodeURIComponent(id)}`, body, { schema: adminUserResponseSchema }),
     onSuccess: () => queryClient.invalidateQueries({ queryKey: adminUsersQuery.queryKey }),
   });
 }

@@ -93,6 +93,28 @@ async function main() {
         await page.keyboard.press('Tab'); // show the focus ring on the password field
       },
     });
+    await shoot(browser, app.url, 'keyboard-focus', {
+      path: '/sign-in',
+      user: null,
+      ready: 'text=Sign in to Keepwell',
+      act: async ({ page }) => {
+        // E-mail has focus on arrival; Tab, Tab, Tab reaches the button in reading order.
+        for (const expected of ['Password', 'Forgot your password?', 'Sign in']) {
+          await page.keyboard.press('Tab');
+          const name: string = await page.evaluate(`(document.activeElement.labels?.[0]?.textContent ?? document.activeElement.textContent).trim()`);
+          check(name === expected, `sign-in: Tab order reaches “${expected}” (got “${name}”)`);
+        }
+      },
+    });
+    await shoot(browser, app.url, 'skip-link', {
+      path: '/blocks',
+      user: users.designer,
+      ready: 'table',
+      act: async ({ page }) => {
+        await page.keyboard.press('Tab');
+        check((await page.evaluate(`document.activeElement.textContent`)) === 'Skip to content', 'shell: the first Tab stop is “Skip to content”');
+      },
+    });
     await shoot(browser, app.url, 'overview-designer', {
       path: '/sign-in?next=%2F',
       user: null,
