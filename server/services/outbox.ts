@@ -1,4 +1,6 @@
 // What the admin's outbox screen reads: the team's outgoing mail and its delivery state.
+// In production the one-time tokens in reset and invitation links are hidden: an
+// administrator must not be able to take over a member's account from the outbox.
 
 import type { OutboxMessage } from '../../shared/api/admin';
 import { MailMessage } from '../db/models';
@@ -31,8 +33,15 @@ export async function listOutbox(teamId: string, page: number, pageSize: number)
   return { items: rows.map(summary), total: count, page, pageSize };
 }
 
-export async function getOutboxMessage(teamId: string, id: string): Promise<OutboxMessage> {
+const LINK_TOKEN = /([?&]token=)[A-Za-z0-9_%-]+/g;
+
+export function hideLinkTokens(body: string): string {
+  return body.replace(LINK_TOKEN, '$1(hidden)');
+}
+
+export async function getOutboxMessage(teamId: string, id: string, options: { hideTokens: boolean }): Promise<OutboxMessage> {
   const m = await MailMessage.findOne({ where: { id, teamId } });
   if (!m) throw notFound('Message');
-  return { ...summary(m), text: m.text, html: m.html };
+  const show = options.hideTokens ? hideLinkTokens : (body: string) => body;
+  return { ...summary(m), text: show(m.text), html: m.html === null ? null : show(m.html) };
 }

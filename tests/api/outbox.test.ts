@@ -8,7 +8,7 @@ import { SMTPServer } from 'smtp-server';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { outboxMessageSchema, outboxPageSchema } from '../../shared/api/admin';
 import { MailMessage } from '../../server/db/models';
-import { createTeam, createUser, signedInAs, startTestEnv, type TestEnv } from './helpers';
+import { createTeam, createUser, setCookie, signedInAs, startTestEnv, type TestEnv } from './helpers';
 
 interface Peer {
   port: number;
@@ -145,5 +145,26 @@ describe('admin outbox', () => {
     const bad = await admin.agent.get('/api/admin/outbox?pageSize=100000').expect(400);
     expect(bad.body.error.details[0].path).toBe('query.pageSize');
     await admin.agent.get('/api/admin/outbox/not-a-uuid').expect(400);
+  });
+
+  it('hides the one-time token of reset links from the production outbox, and shows it in development', async () => {
+    const team = await createTeam();
+    const { email } = await createUser({ team, roles: ['designer'], email: `hidden.${Date.now()}@keepwell.test` });
+    const productionServer = await env.serverWith({ NODE_ENV: 'production' });
+    const admin = await signedInAs(env, team, ['admin']);
+    await env.agent().post('/api/auth/password-reset').send({ email }).expect(202);
+    const row = await MailMessage.findOne({ where: { to: email } });
+    expect(row!.text).toMatch(/reset-password\?token=[A-Za-z0-9_-]{43}/);
+
+    const dev = await admin.agent.get(`/api/admin/outbox/${row!.id}`).expect(200);
+    expect(dev.body.text).toContain(row!.text.match(/token=([A-Za-z0-9_-]+)/)![1]);
+
+    // Production cookies are Secure, which a cookie jar keeps off plain HTTP (RFC 6265 §5.4): pass it by hand.
+    const login = await env.agent(productionServer).post('/api/auth/login').send({ email: admin.email, password: admin.password }).expect(200);
+    const cookie = setCookie(login, 'keepwell_session')!.split(';')[0];
+    const prod = await env.agent(productionServer).set('Cookie', cookie).get(`/api/admin/outbox/${row!.id}`).expect(200);
+    expect(prod.body.text).toContain('/reset-password?token=(hidden)');
+    expect(prod.body.html).toContain('token=(hidden)');
+    expect(prod.body.text).not.toMatch(/token=[A-Za-z0-9_-]{43}/);
   });
 });

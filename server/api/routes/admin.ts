@@ -37,7 +37,7 @@ export function adminRoutes(ctx: AppContext): Router {
 
   router.get('/outbox/:id', requirePermission('outbox.read'), async (req, res) => {
     const { params } = parseRequest(req, { params: idParamSchema });
-    res.json(await getOutboxMessage(teamIdOf(req), params.id));
+    res.json(await getOutboxMessage(teamIdOf(req), params.id, { hideTokens: ctx.config.isProduction }));
   });
 
   return router;
