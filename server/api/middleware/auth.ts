@@ -97,11 +97,6 @@ export function requirePermission(permission: Permission): RequestHandler {
   };
 }
 
-export const requireSignedIn: RequestHandler = (req, _res, next) => {
-  signedIn(req);
-  next();
-};
-
 function cookieOptions(ctx: AppContext, req: Request) {
   return {
     httpOnly: true,
