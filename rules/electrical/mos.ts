@@ -54,3 +54,76 @@ function nChannelCurrent(m: MosModel, beta: number, va: number, vb: number, vg: 
   if (va >= vb) return forwardCurrent(m, beta, vg - vb, va - vb, vb - vbulk);
   return -forwardCurrent(m, beta, vg - va, vb - va, va - vbulk);
 }
+
+/**
+ * Channel current from a to b and its partial derivatives with respect to the voltages of a and b
+ * (gate and bulk held), written into `out` as [I, ∂I/∂Va, ∂I/∂Vb]. Analytic, region by region.
+ */
+export function channelCurrentSlopes(m: MosModel, beta: number, va: number, vb: number, vg: number, vbulk: number, out: Float64Array): void {
+  if (m.polarity === 'p') {
+    // I_p(va, vb) = −I_n(−va, −vb): the derivatives keep their sign.
+    nChannelSlopes(m, beta, -va, -vb, -vg, -vbulk, out);
+    out[0] = -out[0];
+    return;
+  }
+  nChannelSlopes(m, beta, va, vb, vg, vbulk, out);
+}
+
+const partials = new Float64Array(4);
+
+function nChannelSlopes(m: MosModel, beta: number, va: number, vb: number, vg: number, vbulk: number, out: Float64Array): void {
+  if (va >= vb) {
+    forwardPartials(m, beta, vg - vb, va - vb, vb - vbulk, partials);
+    const [i, gs, ds, sb] = partials;
+    out[0] = i;
+    out[1] = ds;
+    out[2] = -gs - ds + sb;
+  } else {
+    forwardPartials(m, beta, vg - va, vb - va, va - vbulk, partials);
+    const [i, gs, ds, sb] = partials;
+    out[0] = -i;
+    out[1] = gs + ds - sb;
+    out[2] = -ds;
+  }
+}
+
+/** [I, ∂I/∂VGS, ∂I/∂VDS, ∂I/∂VSB] of `forwardCurrent`. */
+function forwardPartials(m: MosModel, beta: number, vgs: number, vds: number, vsb: number, out: Float64Array): void {
+  let dvt = 0;
+  let vt = m.vt0;
+  if (m.gamma !== 0) {
+    const root = m.phi2F + vsb;
+    if (root > 0) {
+      const sq = Math.sqrt(root);
+      vt += m.gamma * (sq - Math.sqrt(m.phi2F));
+      dvt = m.gamma / (2 * sq);
+    } else vt -= m.gamma * Math.sqrt(m.phi2F);
+  }
+  const vgt = vgs - vt;
+  if (vgt <= 0) {
+    out[0] = out[1] = out[2] = out[3] = 0;
+    return;
+  }
+  const mod = 1 + m.lambda * vds;
+  let q: number;
+  let dqGt: number;
+  let dqDs: number;
+  const sat = m.kind === 'velocity-saturated' && m.vdsat < vgt && m.vdsat < vds;
+  if (sat) {
+    q = vgt * m.vdsat - 0.5 * m.vdsat * m.vdsat;
+    dqGt = m.vdsat;
+    dqDs = 0;
+  } else if (vds < vgt) {
+    q = vgt * vds - 0.5 * vds * vds;
+    dqGt = vds;
+    dqDs = vgt - vds;
+  } else {
+    q = 0.5 * vgt * vgt;
+    dqGt = vgt;
+    dqDs = 0;
+  }
+  out[0] = beta * q * mod;
+  out[1] = beta * dqGt * mod;
+  out[2] = beta * (dqDs * mod + q * m.lambda);
+  out[3] = -out[1] * dvt;
+}

@@ -13,8 +13,10 @@
 // that current. Every element's current is monotone in its terminal voltages, so each
 // bracket holds exactly one root.
 
-import { brent } from './roots';
-import { channelCurrent, type MosModel } from './mos';
+import { brentNear } from './roots';
+import { channelCurrent, channelCurrentSlopes, thresholdVoltage, type MosModel } from './mos';
+
+const slopes = new Float64Array(3);
 
 /** Network ends standing for the supply and ground rails in networks over cell nets (whatever rail nets a cell has). */
 export const POWER_END = -1;
@@ -90,10 +92,30 @@ export function conducts(n: Network, on: (element: number) => boolean): boolean 
   }
 }
 
+type Series = Extract<Network, { kind: 'series' }>;
+
+/** Per series network: solver closures made once (making closures on every call is costly), and warm-start state. */
+interface SeriesSolver {
+  /** Two-element series: balance of the two currents as a function of the middle node. */
+  balance: (x: number) => number;
+  /** Longer stacks: residual of a trial current, and per element the flow balance at its upper node. */
+  residual: (current: number) => number;
+  forward: boolean;
+  sign: number;
+  high: number;
+  low: number;
+  current: number;
+  lastCurrent: number;
+  child: Network[];
+  nodeAbove: number[];
+  inner: ((y: number) => number)[];
+}
+
 /** Evaluates network currents over node voltages `v`; solving a series network writes its internal nodes into `v`. */
 export class NetworkEvaluator {
   /** Element evaluations so far (for benchmarks). */
   evaluations = 0;
+  private readonly solvers = new Map<Network, SeriesSolver>();
 
   constructor(
     readonly elements: readonly CircuitElement[],
@@ -112,9 +134,144 @@ export class NetworkEvaluator {
         for (const c of n.children) sum += this.current(c);
         return sum;
       }
-      case 'series':
+      case 'series': {
+        if (n.children.every((c) => c.kind === 'leaf')) {
+          const newton = this.leafStack(n);
+          if (newton !== null) return newton;
+        }
         return n.children.length === 2 ? this.pair(n) : this.stack(n);
+      }
     }
+  }
+
+  /**
+   * A series stack of single elements by Newton's method on its internal nodes (tridiagonal
+   * Jacobian from analytic device slopes), warm-started from the nodes' previous voltages.
+   * Returns null when Newton does not converge inside the bracket; the caller then falls
+   * back to the bracketed solve. An element that is off whatever its node voltages makes
+   * the stack current zero at once.
+   */
+  private leafStack(n: Series): number | null {
+    const v = this.v;
+    const va = v[n.a];
+    const vb = v[n.b];
+    const k = n.children.length;
+    const lo = Math.min(va, vb);
+    const hi = Math.max(va, vb);
+    if (va === vb || this.anyAlwaysOff(n, lo, hi)) {
+      this.fillNodes(n, lo);
+      return 0;
+    }
+    const m = k - 1;
+    const x = this.scratch(m);
+    for (let j = 0; j < m; j++) {
+      const old = v[n.nodes[j]];
+      x[j] = old > lo && old < hi ? old : va + ((vb - va) * (j + 1)) / k;
+    }
+    const { cur, dA, dB, diag, upper, lower, rhs } = this.work;
+    for (let iter = 0; iter < 40; iter++) {
+      for (let j = 0; j < m; j++) v[n.nodes[j]] = x[j];
+      for (let j = 0; j < k; j++) {
+        const c = n.children[j] as Extract<Network, { kind: 'leaf' }>;
+        this.leafSlopes(c.element, c.a, c.b);
+        cur[j] = slopes[0];
+        dA[j] = slopes[1];
+        dB[j] = slopes[2];
+      }
+      // F_j = I_j − I_{j+1} at node j (between children j and j+1).
+      let worst = 0;
+      for (let j = 0; j < m; j++) {
+        rhs[j] = -(cur[j] - cur[j + 1]);
+        diag[j] = dB[j] - dA[j + 1];
+        lower[j] = dA[j];
+        upper[j] = -dB[j + 1];
+      }
+      // Thomas algorithm.
+      for (let j = 1; j < m; j++) {
+        if (diag[j - 1] === 0) return null;
+        const w = lower[j] / diag[j - 1];
+        diag[j] -= w * upper[j - 1];
+        rhs[j] -= w * rhs[j - 1];
+      }
+      if (diag[m - 1] === 0) return null;
+      rhs[m - 1] /= diag[m - 1];
+      for (let j = m - 2; j >= 0; j--) rhs[j] = (rhs[j] - upper[j] * rhs[j + 1]) / diag[j];
+      for (let j = 0; j < m; j++) {
+        let step = rhs[j];
+        if (!Number.isFinite(step)) return null;
+        // Limit a step to a fraction of the span so a cut-off region cannot throw the node out of the stack.
+        const cap = 0.25 * (hi - lo);
+        if (step > cap) step = cap;
+        else if (step < -cap) step = -cap;
+        let next = x[j] + step;
+        if (next < lo) next = 0.5 * (x[j] + lo);
+        else if (next > hi) next = 0.5 * (x[j] + hi);
+        worst = Math.max(worst, Math.abs(next - x[j]));
+        x[j] = next;
+      }
+      if (worst <= this.voltageTolerance) {
+        for (let j = 0; j < m; j++) v[n.nodes[j]] = x[j];
+        let sum = 0;
+        for (let j = 0; j < k; j++) {
+          const c = n.children[j] as Extract<Network, { kind: 'leaf' }>;
+          sum += this.leaf(c.element, c.a, c.b);
+        }
+        return sum / k;
+      }
+    }
+    return null;
+  }
+
+  private readonly work = {
+    cur: new Float64Array(64),
+    dA: new Float64Array(64),
+    dB: new Float64Array(64),
+    diag: new Float64Array(64),
+    upper: new Float64Array(64),
+    lower: new Float64Array(64),
+    rhs: new Float64Array(64),
+  };
+  private scratchX = new Float64Array(64);
+
+  private scratch(m: number): Float64Array {
+    if (m > 63) {
+      // Very long stacks: grow the work arrays once.
+      for (const key of Object.keys(this.work) as (keyof typeof this.work)[]) this.work[key] = new Float64Array(2 * m + 2);
+      this.scratchX = new Float64Array(2 * m + 2);
+    }
+    return this.scratchX;
+  }
+
+  private leafSlopes(index: number, a: number, b: number): void {
+    this.evaluations++;
+    const e = this.elements[index];
+    const v = this.v;
+    if (e.kind === 'res') {
+      slopes[0] = (v[a] - v[b]) * e.conductance;
+      slopes[1] = e.conductance;
+      slopes[2] = -e.conductance;
+      return;
+    }
+    channelCurrentSlopes(e.model, e.beta, v[a], v[b], v[e.gate], v[e.bulk], slopes);
+  }
+
+  /** Whether some MOS element of the stack cannot conduct for any node voltages inside [lo, hi]. */
+  private anyAlwaysOff(n: Series, lo: number, hi: number): boolean {
+    const v = this.v;
+    for (const c of n.children) {
+      if (c.kind !== 'leaf') continue;
+      const e = this.elements[c.element];
+      if (e.kind !== 'mos') continue;
+      // The most favourable source is the stack's low end (n-channel) or high end (p-channel); the body effect only raises VT from there.
+      const gate = v[e.gate];
+      if (e.gate === n.a || e.gate === n.b || n.nodes.includes(e.gate)) continue;
+      const drive =
+        e.model.polarity === 'n'
+          ? gate - lo - thresholdVoltage(e.model, lo - v[e.bulk])
+          : hi - gate - thresholdVoltage(e.model, v[e.bulk] - hi);
+      if (drive <= 0) return true;
+    }
+    return false;
   }
 
   private leaf(index: number, a: number, b: number): number {
@@ -125,27 +282,43 @@ export class NetworkEvaluator {
     return channelCurrent(e.model, e.beta, v[a], v[b], v[e.gate], v[e.bulk]);
   }
 
-  private pair(n: Extract<Network, { kind: 'series' }>): number {
+  private solverFor(n: Series): SeriesSolver {
+    let s = this.solvers.get(n);
+    if (s) return s;
     const v = this.v;
-    const va = v[n.a];
-    const vb = v[n.b];
-    const node = n.nodes[0];
-    if (va === vb) {
-      this.fillNodes(n, va);
-      return 0;
-    }
-    const [first, second] = n.children;
-    // Decreasing in the middle node's voltage: the first element's current falls and the second's rises.
-    const balance = (x: number) => {
-      v[node] = x;
-      return this.current(first) - this.current(second);
+    const k = n.children.length;
+    const solver: SeriesSolver = {
+      balance: (x) => {
+        v[n.nodes[0]] = x;
+        return this.current(n.children[0]) - this.current(n.children[1]);
+      },
+      residual: (current) => this.walk(solver, current),
+      forward: true,
+      sign: 1,
+      high: 0,
+      low: 0,
+      current: 0,
+      lastCurrent: -1,
+      child: new Array(k),
+      nodeAbove: new Array(k),
+      inner: [],
     };
-    const x = brent(balance, Math.min(va, vb), Math.max(va, vb), this.voltageTolerance);
-    v[node] = x;
-    return 0.5 * (this.current(first) + this.current(second));
+    // inner[j] (j = 1 … k−1 in high-to-low order) for each orientation: index j + (forward ? 0 : k).
+    for (const forward of [true, false]) {
+      for (let j = 0; j < k; j++) {
+        const child = n.children[forward ? j : k - 1 - j];
+        const node = j === 0 ? -1 : n.nodes[forward ? j - 1 : k - 1 - j];
+        solver.inner[j + (forward ? 0 : k)] = (y) => {
+          v[node] = y;
+          return solver.sign * this.current(child) - solver.current;
+        };
+      }
+    }
+    this.solvers.set(n, solver);
+    return (s = solver);
   }
 
-  private stack(n: Extract<Network, { kind: 'series' }>): number {
+  private pair(n: Series): number {
     const v = this.v;
     const va = v[n.a];
     const vb = v[n.b];
@@ -153,52 +326,71 @@ export class NetworkEvaluator {
       this.fillNodes(n, va);
       return 0;
     }
-    const k = n.children.length;
-    const forward = va > vb;
-    const sign = forward ? 1 : -1;
-    const high = forward ? va : vb;
-    const low = forward ? vb : va;
-    // Children from the high end to the low end, and the node above each (index j: between child j-1 and j).
-    const child = (j: number) => n.children[forward ? j : k - 1 - j];
-    const nodeAbove = (j: number) => n.nodes[forward ? j - 1 : k - 1 - j];
-    const flow = (c: Network) => sign * this.current(c);
+    const s = this.solverFor(n);
+    const node = n.nodes[0];
+    const lo = Math.min(va, vb);
+    const hi = Math.max(va, vb);
+    // Decreasing in the middle node's voltage: the first element's current falls and the second's rises.
+    const x = brentNear(s.balance, lo, hi, v[node], Math.max(1e-3 * (hi - lo), 1e-9), this.voltageTolerance, true);
+    v[node] = x;
+    return 0.5 * (this.current(n.children[0]) + this.current(n.children[1]));
+  }
 
-    // Residual of a trial stack current: walk up from the low end solving each node; positive when the top element carries more.
-    const residual = (current: number): number => {
-      let below = low;
-      for (let j = k - 1; j >= 1; j--) {
-        const node = nodeAbove(j);
-        const c = child(j);
-        v[node] = high;
-        const capacity = flow(c);
-        if (capacity < current) {
-          for (let i = j - 1; i >= 1; i--) v[nodeAbove(i)] = high;
-          return capacity - 2 * current;
-        }
-        const x = brent(
-          (y) => {
-            v[node] = y;
-            return flow(c) - current;
-          },
-          below,
-          high,
-          this.voltageTolerance,
-        );
-        v[node] = x;
-        below = x;
-      }
-      return flow(child(0)) - current;
-    };
-
-    v[nodeAbove(k - 1)] = high;
-    const ceiling = flow(child(k - 1));
-    if (!(ceiling > 0)) {
-      this.fillNodes(n, low);
+  // Longer stacks: a solve on the stack current in which each node, walked up from the low end, is itself solved.
+  private stack(n: Series): number {
+    const v = this.v;
+    const va = v[n.a];
+    const vb = v[n.b];
+    if (va === vb) {
+      this.fillNodes(n, va);
       return 0;
     }
-    const current = brent(residual, 0, ceiling, ceiling * 1e-14);
-    residual(current);
-    return sign * current;
+    const s = this.solverFor(n);
+    const k = n.children.length;
+    s.forward = va > vb;
+    s.sign = s.forward ? 1 : -1;
+    s.high = s.forward ? va : vb;
+    s.low = s.forward ? vb : va;
+    for (let j = 0; j < k; j++) {
+      s.child[j] = n.children[s.forward ? j : k - 1 - j];
+      s.nodeAbove[j] = j === 0 ? -1 : n.nodes[s.forward ? j - 1 : k - 1 - j];
+    }
+    v[s.nodeAbove[k - 1]] = s.high;
+    const ceiling = s.sign * this.current(s.child[k - 1]);
+    if (!(ceiling > 0)) {
+      this.fillNodes(n, s.low);
+      return 0;
+    }
+    const guess = s.lastCurrent >= 0 && s.lastCurrent <= ceiling ? s.lastCurrent : 0.5 * ceiling;
+    const current = brentNear(s.residual, 0, ceiling, guess, 1e-3 * ceiling, ceiling * 1e-14, true);
+    s.lastCurrent = current;
+    this.walk(s, current);
+    return s.sign * current;
+  }
+
+  // Residual of a trial stack current: positive when the top element carries more than the trial.
+  private walk(s: SeriesSolver, current: number): number {
+    const v = this.v;
+    const k = s.child.length;
+    const offset = s.forward ? 0 : k;
+    s.current = current;
+    let below = s.low;
+    for (let j = k - 1; j >= 1; j--) {
+      const node = s.nodeAbove[j];
+      const previous = v[node];
+      v[node] = s.high;
+      const capacity = s.sign * this.current(s.child[j]);
+      if (capacity < current) {
+        for (let i = j - 1; i >= 1; i--) v[s.nodeAbove[i]] = s.high;
+        return capacity - 2 * current;
+      }
+      const step = Math.max(1e-3 * (s.high - below), 1e-9);
+      const x = brentNear(s.inner[j + offset], below, s.high, previous, step, this.voltageTolerance, false);
+      v[node] = x;
+      below = x;
+      s.current = current;
+    }
+    return s.sign * this.current(s.child[0]) - current;
   }
 
   private fillNodes(n: Network, value: number) {

@@ -11,9 +11,9 @@ const EPS = Number.EPSILON;
  * Returns the end with the smaller |f| when the signs do not bracket a root.
  * `tol` is the absolute tolerance on x.
  */
-export function brent(f: (x: number) => number, a: number, b: number, tol: number, maxIter = 200): number {
-  let fa = f(a);
-  let fb = f(b);
+export function brent(f: (x: number) => number, a: number, b: number, tol: number, maxIter = 200, fa0?: number, fb0?: number): number {
+  let fa = fa0 ?? f(a);
+  let fb = fb0 ?? f(b);
   if (fa === 0) return a;
   if (fb === 0) return b;
   if ((fa > 0) === (fb > 0)) return Math.abs(fa) < Math.abs(fb) ? a : b;
@@ -71,6 +71,41 @@ export function brent(f: (x: number) => number, a: number, b: number, tol: numbe
     fb = f(b);
   }
   return b;
+}
+
+/**
+ * A root of a monotone `f` on [lo, hi], searched first near `guess`: the bracket grows
+ * from `step` by a factor of four each time until the sign changes (or the interval
+ * ends), then Brent's method finishes. Successive solves of slowly moving problems
+ * (a swept curve, the nodes of a stack inside an outer solve) start next to their
+ * previous answer and need a handful of evaluations instead of a full-interval search.
+ */
+export function brentNear(
+  f: (x: number) => number,
+  lo: number,
+  hi: number,
+  guess: number,
+  step: number,
+  tol: number,
+  decreasing: boolean,
+): number {
+  if (!(hi > lo)) return lo;
+  let g = guess >= lo && guess <= hi ? guess : 0.5 * (lo + hi);
+  let fg = f(g);
+  if (fg === 0) return g;
+  // The root lies above g when f is still on its starting side.
+  const up = (fg > 0) === decreasing;
+  let d = step;
+  for (;;) {
+    const x = up ? Math.min(g + d, hi) : Math.max(g - d, lo);
+    const fx = f(x);
+    if (fx === 0) return x;
+    if ((fx > 0) !== (fg > 0)) return up ? brent(f, g, x, tol, 200, fg, fx) : brent(f, x, g, tol, 200, fx, fg);
+    if (x === (up ? hi : lo)) return x;
+    g = x;
+    fg = fx;
+    d *= 4;
+  }
 }
 
 /** The x in [a, b] where `f` is largest, assuming one peak in the interval (golden-section search). */

@@ -19,7 +19,7 @@
 
 import type { CircuitElement, Network } from './network';
 import { NetworkEvaluator } from './network';
-import { brent, goldenMax } from './roots';
+import { brent, brentNear, goldenMax } from './roots';
 
 export const GROUND = 0;
 export const POWER = 1;
@@ -107,9 +107,19 @@ export class TransferSolver {
     return leak - this.net.current(this.circuit.pullUp) - this.net.current(this.circuit.pullDown);
   }
 
+  private sweptInput = 0;
+  private readonly balanceAtInput = (vout: number) => this.balance(this.sweptInput, vout);
+
+  /** Vout for one input voltage: Brent on the output node, starting next to the previous answer. */
   vout(vin: number): number {
-    return brent((x) => this.balance(vin, x), 0, this.circuit.vdd, 1e-12);
+    const vdd = this.circuit.vdd;
+    this.sweptInput = vin;
+    const guess = this.lastVout >= 0 ? this.lastVout : 0.5 * vdd;
+    const x = brentNear(this.balanceAtInput, 0, vdd, guess, 1e-3 * vdd, 1e-12, true);
+    this.lastVout = x;
+    return x;
   }
+  private lastVout = -1;
 
   /** dVout/dVin at a solved point. */
   slope(vin: number, vout: number): number {
@@ -227,7 +237,7 @@ export function analyseTransfer(circuit: StageCircuit, options: TransferOptions 
   for (let i = 1; i < n; i++) if (Math.abs(slopes[i]) > Math.abs(slopes[peak])) peak = i;
   const lo = vin[Math.max(peak - 1, 0)];
   const hi = vin[Math.min(peak + 1, n - 1)];
-  const refined = goldenMax((x) => Math.abs(solver.slopeAt(x)), lo, hi, 1e-7 * vdd);
+  const refined = goldenMax((x) => Math.abs(solver.slopeAt(x)), lo, hi, 1e-6 * vdd);
   let maxGainAt = refined.x;
   let maxGain = solver.slopeAt(refined.x);
   if (Math.abs(slopes[peak]) > Math.abs(maxGain)) {

@@ -2,7 +2,7 @@
 
 import type { Cell, RailKind } from '../../grammar/design';
 import type { Network } from '../electrical/network';
-import { conducts, networkElements } from '../electrical/network';
+import { networkElements } from '../electrical/network';
 import type { Stage } from './stage';
 
 /** Beyond this many inputs, truth tables give way to structural checks. */
@@ -45,12 +45,26 @@ export function stageLogic(stage: Stage, cell: Cell, railOf: (net: number) => Ra
   };
 }
 
+/** `conducts` for one input assignment, without a closure per call. */
+export function conductsFor(n: Network, logic: StageLogic, mask: number): boolean {
+  switch (n.kind) {
+    case 'leaf':
+      return logic.on(n.element, mask);
+    case 'series':
+      for (const c of n.children) if (!conductsFor(c, logic, mask)) return false;
+      return true;
+    case 'parallel':
+      for (const c of n.children) if (conductsFor(c, logic, mask)) return true;
+      return false;
+  }
+}
+
 export type OutputValue = 0 | 1 | 'Z' | 'X';
 
 /** Output value for one input assignment; a network of always-on elements is a ratioed load that the other network overrides. */
 export function outputValue(stage: Stage, logic: StageLogic, mask: number): OutputValue {
-  const pu = stage.pullUp ? conducts(stage.pullUp, (e) => logic.on(e, mask)) : false;
-  const pd = stage.pullDown ? conducts(stage.pullDown, (e) => logic.on(e, mask)) : false;
+  const pu = stage.pullUp ? conductsFor(stage.pullUp, logic, mask) : false;
+  const pd = stage.pullDown ? conductsFor(stage.pullDown, logic, mask) : false;
   if (pu && !pd) return 1;
   if (pd && !pu) return 0;
   if (!pu && !pd) return 'Z';
@@ -103,8 +117,8 @@ export function classifyStage(
     let complementary = true;
     if (exhaustive) {
       for (let mask = 0; mask < 1 << k && complementary; mask++) {
-        const pu = conducts(pullUp, (e) => logic.on(e, mask));
-        const pd = conducts(pullDown, (e) => logic.on(e, mask));
+        const pu = conductsFor(pullUp, logic, mask);
+        const pd = conductsFor(pullDown, logic, mask);
         complementary = pu !== pd;
       }
     } else stage.notes.push(`complementary by structure only (${k} inputs, truth table not enumerated)`);

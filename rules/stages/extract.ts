@@ -81,15 +81,14 @@ export function extractStages(cell: Cell, rails: readonly (RailKind | undefined)
   for (const inst of cell.instances) for (const p of inst.pins) observed[alias[p]] = 1;
   const toPower = new Uint8Array(netCount);
   const toGround = new Uint8Array(netCount);
+  const markRailNeighbour = (x: number, y: number) => {
+    const r = railOf(y);
+    if (r === 'power') toPower[x] = 1;
+    else if (r === 'ground') toGround[x] = 1;
+  };
   for (const e of edges) {
-    for (const [x, y] of [
-      [e.a, e.b],
-      [e.b, e.a],
-    ]) {
-      const r = railOf(y);
-      if (r === 'power') toPower[x] = 1;
-      else if (r === 'ground') toGround[x] = 1;
-    }
+    markRailNeighbour(e.a, e.b);
+    markRailNeighbour(e.b, e.a);
   }
   for (let i = 0; i < netCount; i++) if (toPower[i] && toGround[i]) observed[i] = 1;
   for (let i = 0; i < netCount; i++) if (railOf(i)) observed[i] = 0;
@@ -99,15 +98,17 @@ export function extractStages(cell: Cell, rails: readonly (RailKind | undefined)
   const blocks = new UnionFind(edges.length);
   const firstOnNet = new Int32Array(netCount).fill(-1);
   const firstOnInternal = new Int32Array(netCount).fill(-1);
+  const join = (x: number, i: number) => {
+    if (railOf(x)) return;
+    if (firstOnNet[x] < 0) firstOnNet[x] = i;
+    else components.union(firstOnNet[x], i);
+    if (observed[x]) return;
+    if (firstOnInternal[x] < 0) firstOnInternal[x] = i;
+    else blocks.union(firstOnInternal[x], i);
+  };
   edges.forEach((e, i) => {
-    for (const x of [e.a, e.b]) {
-      if (railOf(x)) continue;
-      if (firstOnNet[x] < 0) firstOnNet[x] = i;
-      else components.union(firstOnNet[x], i);
-      if (observed[x]) continue;
-      if (firstOnInternal[x] < 0) firstOnInternal[x] = i;
-      else blocks.union(firstOnInternal[x], i);
-    }
+    join(e.a, i);
+    join(e.b, i);
   });
   const blockMembers = new Map<number, number[]>();
   edges.forEach((_, i) => {
@@ -132,13 +133,15 @@ export function extractStages(cell: Cell, rails: readonly (RailKind | undefined)
     const obs = new Set<number>();
     let power = false;
     let ground = false;
+    const visit = (x: number) => {
+      const r = railOf(x);
+      if (r === 'power') power = true;
+      else if (r === 'ground') ground = true;
+      else if (observed[x]) obs.add(x);
+    };
     for (const i of list) {
-      for (const x of [edges[i].a, edges[i].b]) {
-        const r = railOf(x);
-        if (r === 'power') power = true;
-        else if (r === 'ground') ground = true;
-        else if (observed[x]) obs.add(x);
-      }
+      visit(edges[i].a);
+      visit(edges[i].b);
     }
     return { edges: list, observed: [...obs], power, ground };
   };
@@ -224,7 +227,10 @@ export function extractStages(cell: Cell, rails: readonly (RailKind | undefined)
     const elements = sorted.map((i) => edges[i].element);
     sorted.forEach((ei, k) => local.set(ei, k));
     const stageNets = new Set<number>();
-    for (const i of sorted) for (const x of [edges[i].a, edges[i].b]) if (!railOf(x)) stageNets.add(x);
+    for (const i of sorted) {
+      if (!railOf(edges[i].a)) stageNets.add(edges[i].a);
+      if (!railOf(edges[i].b)) stageNets.add(edges[i].b);
+    }
     const inputs: number[] = [];
     const feedback: number[] = [];
     for (const i of sorted) {

@@ -37,10 +37,45 @@ function leavesOf(n: Network, out: number[]) {
   else for (const c of n.children) leavesOf(c, out);
 }
 
+/** The common shapes without the general reduction: one element, elements all in parallel, or one simple chain. */
+function directNetwork(edges: readonly Network[], from: number, to: number): Network | null {
+  if (edges.length === 0) return null;
+  let allDirect = true;
+  for (const e of edges) if (!((e.a === from && e.b === to) || (e.a === to && e.b === from))) allDirect = false;
+  if (allDirect) {
+    const oriented = edges.map((e) => (e.a === from ? e : reverseNetwork(e)));
+    return oriented.length === 1 ? oriented[0] : { kind: 'parallel', a: from, b: to, children: oriented };
+  }
+  // A simple chain: walk from `from`, each step along the only unused edge at the current node.
+  const children: Network[] = [];
+  const nodes: number[] = [];
+  const used = new Uint8Array(edges.length);
+  let at = from;
+  while (at !== to) {
+    let next = -1;
+    for (let i = 0; i < edges.length; i++) {
+      if (used[i] || (edges[i].a !== at && edges[i].b !== at)) continue;
+      if (next >= 0) return null;
+      next = i;
+    }
+    if (next < 0) return null;
+    used[next] = 1;
+    const e = edges[next].a === at ? edges[next] : reverseNetwork(edges[next]);
+    children.push(e);
+    at = e.b;
+    if (at !== to) nodes.push(at);
+    if (children.length > edges.length) return null;
+  }
+  if (children.length !== edges.length || new Set(nodes).size !== nodes.length || nodes.includes(from)) return null;
+  return { kind: 'series', a: from, b: to, children, nodes };
+}
+
 /** Reduce `edges` between terminals `from` and `to`; the result runs from `from` (a) to `to` (b). */
 export function reduceSeriesParallel(edges: readonly Network[], from: number, to: number): Reduction {
   const dangling: number[] = [];
   if (edges.length > MAX_EDGES) return { network: null, reason: 'too-large', dangling };
+  const fast = directNetwork(edges, from, to);
+  if (fast) return { network: fast, dangling };
   let live: Network[] = edges.filter((e) => {
     if (e.a !== e.b) return true;
     leavesOf(e, dangling);

@@ -1,0 +1,149 @@
+// Stage solver benchmark: a flat cell of about a million transistors, generated in
+// code from a small library of gate types in many sizes (an invented block,
+// "Tamsin", of an invented chip), run through stage extraction and the two stage
+// rules over every corner of the built-in deck. Prints devices, stages, distinct
+// stage signatures, transfer solves and times.
+//
+// Run alone with `npx tsx tests/bench/stages.ts [transistors]`, or from `npm run bench`.
+
+import { pathToFileURL } from 'node:url';
+import { checkDesign } from '../../rules/engine';
+import { defaultDeck } from '../../rules/default-deck';
+import nonRegenerative from '../../rules/stage/non-regenerative';
+import noiseMargin from '../../rules/stage/noise-margin';
+import { analysisStats, extractStages } from '../../rules/stages';
+import { localRails } from '../../rules/engine';
+import { CellBuilder, designOf } from '../support/cell-builder';
+
+function prng(seed: number): () => number {
+  let a = seed >>> 0;
+  return () => {
+    a = (a + 0x6d2b79f5) >>> 0;
+    let t = a;
+    t = Math.imul(t ^ (t >>> 15), t | 1);
+    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
+    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
+  };
+}
+
+const L = 0.15e-6;
+// 16 widths per polarity and gate type: 8 types × 256 sizings ≈ 2000 distinct static stages.
+const WIDTHS = Array.from({ length: 16 }, (_, i) => (0.42 + 0.13 * i) * 1e-6);
+
+export function generateTamsin(transistors: number, seed = 7) {
+  const rand = prng(seed);
+  const pick = <T>(xs: readonly T[]) => xs[Math.floor(rand() * xs.length)];
+  const b = new CellBuilder('tamsin_flat', ['clk', 'vdd', 'vss', 'd0', 'd1', 'd2', 'd3', 'q'], 'tamsin_flat.sp');
+  const recent = ['d0', 'd1', 'd2', 'd3'];
+  let gate = 0;
+  let count = 0;
+  const input = () => pick(recent);
+  while (count < transistors) {
+    const g = gate++;
+    const y = `t${g}_y`;
+    const wn = pick(WIDTHS);
+    const wp = pick(WIDTHS);
+    const n = (name: string, d: string, gt: string, s: string, w = wn) => b.nmos(`MN${g}_${name}`, d, gt, s, 'vss', { w, l: L, model: 'nfet' });
+    const p = (name: string, d: string, gt: string, s: string, w = wp) => b.pmos(`MP${g}_${name}`, d, gt, s, 'vdd', { w, l: L, model: 'pfet' });
+    const kind = Math.floor(rand() * 8);
+    const [a, c, e] = [input(), input(), input()];
+    switch (kind) {
+      case 0: // inverter
+        n('a', y, a, 'vss');
+        p('a', y, a, 'vdd');
+        count += 2;
+        break;
+      case 1: // NAND2
+        p('a', y, a, 'vdd');
+        p('b', y, c, 'vdd');
+        n('a', y, a, `t${g}_m`);
+        n('b', `t${g}_m`, c, 'vss');
+        count += 4;
+        break;
+      case 2: // NOR2
+        p('a', `t${g}_m`, a, 'vdd');
+        p('b', y, c, `t${g}_m`);
+        n('a', y, a, 'vss');
+        n('b', y, c, 'vss');
+        count += 4;
+        break;
+      case 3: // NAND3
+        p('a', y, a, 'vdd');
+        p('b', y, c, 'vdd');
+        p('c', y, e, 'vdd');
+        n('a', y, a, `t${g}_m1`);
+        n('b', `t${g}_m1`, c, `t${g}_m2`);
+        n('c', `t${g}_m2`, e, 'vss');
+        count += 6;
+        break;
+      case 4: // AOI21
+        p('a', `t${g}_p`, a, 'vdd');
+        p('b', `t${g}_p`, c, 'vdd');
+        p('c', y, e, `t${g}_p`);
+        n('a', y, a, `t${g}_m`);
+        n('b', `t${g}_m`, c, 'vss');
+        n('c', y, e, 'vss');
+        count += 6;
+        break;
+      case 5: // pseudo-n-channel NOR2
+        p('l', y, 'vss', 'vdd');
+        n('a', y, a, 'vss');
+        n('b', y, c, 'vss');
+        count += 3;
+        break;
+      case 6: // tri-state inverter
+        p('a', `t${g}_p`, a, 'vdd');
+        p('e', y, 'clk_b', `t${g}_p`);
+        n('e', y, 'clk', `t${g}_n`);
+        n('a', `t${g}_n`, a, 'vss');
+        count += 4;
+        break;
+      default: // footed domino AND2 with its output inverter
+        p('pre', `t${g}_x`, 'clk', 'vdd');
+        n('a', `t${g}_x`, a, `t${g}_m1`);
+        n('b', `t${g}_m1`, c, `t${g}_m2`);
+        n('f', `t${g}_m2`, 'clk', 'vss');
+        p('o', y, `t${g}_x`, 'vdd');
+        n('o', y, `t${g}_x`, 'vss');
+        count += 6;
+    }
+    recent[g % recent.length] = y;
+    if (rand() < 0.25) recent.push(y);
+    if (recent.length > 64) recent.splice(0, recent.length - 32);
+  }
+  b.res('RQ', recent[recent.length - 1], 'q', 0);
+  return b.build();
+}
+
+export async function run(transistors = 1_000_000): Promise<void> {
+  const t0 = performance.now();
+  const cell = generateTamsin(transistors);
+  const design = designOf([cell]);
+  const deck = defaultDeck();
+  const t1 = performance.now();
+  const rails = localRails(design, cell, deck);
+  const stages = extractStages(cell, rails);
+  const t2 = performance.now();
+  const result = checkDesign(design, deck, { rules: [nonRegenerative, noiseMargin] as never });
+  const t3 = performance.now();
+  const stats = analysisStats(design);
+  const byKind = new Map<string, number>();
+  for (const s of stages.stages) byKind.set(s.kind, (byKind.get(s.kind) ?? 0) + 1);
+  const line = (label: string, value: string) => console.log(`  ${label.padEnd(34)} ${value}`);
+  console.log('stage solver (flat generated cell, built-in deck, every corner)');
+  line('transistors', cell.mosfets.length.toLocaleString('en'));
+  line('stages', `${stages.stages.length.toLocaleString('en')} (${[...byKind].map(([k, n]) => `${k} ${n}`).join(', ')})`);
+  line('corners', String(deck.corners.length));
+  line('distinct stage signatures', stats.signatures.toLocaleString('en'));
+  line('transfer solves', `${stats.solves.toLocaleString('en')} (memo hits within signatures: ${stats.hits})`);
+  line('findings', String(result.findings.length));
+  line('generate cell', `${(t1 - t0).toFixed(0)} ms`);
+  line('extract and classify stages', `${(t2 - t1).toFixed(0)} ms`);
+  line('check: both stage rules', `${(t3 - t2).toFixed(0)} ms (extraction again + analysis)`);
+  line('per solve', `${stats.solves ? ((t3 - t2) / stats.solves).toFixed(2) : '-'} ms (upper bound, includes extraction)`);
+  line('peak RSS', `${(process.resourceUsage().maxRSS / 1024).toFixed(0)} MB`);
+}
+
+if (import.meta.url === pathToFileURL(process.argv[1] ?? '').href) {
+  await run(Number(process.argv[2] ?? 1_000_000));
+}
