@@ -1,6 +1,7 @@
 import type { ReactNode } from 'react';
 import { Navigate, Outlet, useLocation } from 'react-router';
 import { can, type Permission } from '../../shared/roles';
+import { Button } from '../components/Button';
 import { EmptyState } from '../components/EmptyState';
 import { ErrorNotice } from '../components/Notice';
 import { CurrentUserContext, useSession } from '../lib/session';
@@ -14,7 +15,12 @@ export function RequireSession() {
   if (session.isError)
     return (
       <Splash>
-        <ErrorNotice error={session.error} title="Keepwell could not check your session" />
+        <div className="w-full max-w-md space-y-4">
+          <ErrorNotice error={session.error} title="Keepwell could not check your session" />
+          <Button variant="primary" busy={session.isFetching} onClick={() => session.refetch()}>
+            Try again
+          </Button>
+        </div>
       </Splash>
     );
   if (!session.data) {
