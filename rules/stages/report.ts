@@ -39,16 +39,13 @@ export function sourcesText(corner: CornerAnalysis): string {
 
 export interface StageRow {
   cell: string;
-  stage: number;
-  kind: Stage['kind'];
   output: string | null;
   /** Swept input first, then the held ones. */
   inputs: string[];
-  held: { net: string; volts: number }[];
+  kind: Stage['kind'];
   vm: number | null;
-  vmDefinition: TransferResult['vmDefinition'] | null;
+  /** dVout/dVin at VM. */
   gain: number | null;
-  maxGain: number | null;
   vil: number | null;
   vih: number | null;
   voh: number | null;
@@ -56,9 +53,14 @@ export interface StageRow {
   nmh: number | null;
   nml: number | null;
   corner: string | null;
+  /** Values of the held inputs. */
+  held: { net: string; volts: number }[];
+  vmDefinition: TransferResult['vmDefinition'] | null;
+  maxGain: number | null;
+  stage: number;
   devices: string[];
-  line: number;
   file: string;
+  line: number;
   /** Where the device values came from, per device type. */
   parameters: string | null;
   note: string | null;
@@ -77,27 +79,18 @@ export function worstCorner(corners: readonly CornerAnalysis[]): CornerAnalysis 
 
 export function stageRows(cell: Cell, analyses: readonly StageAnalysis[]): StageRow[] {
   const rows: StageRow[] = [];
-  const names = (nets: number[]) => nets.map((n) => cell.nets[n]);
   for (const a of analyses) {
     const st = a.stage;
-    const base = {
-      cell: cell.name,
-      stage: st.id,
-      kind: st.kind,
-      output: st.output === null ? null : cell.nets[st.output],
-      devices: stageDeviceNames(cell, st),
-      line: st.anchor.line,
-      file: st.anchor.file,
-    };
+    const where = { stage: st.id, devices: stageDeviceNames(cell, st), file: st.anchor.file, line: st.anchor.line };
+    const output = st.output === null ? null : cell.nets[st.output];
     if (!a.inputs.length) {
       rows.push({
-        ...base,
-        inputs: names(st.inputs),
-        held: [],
+        cell: cell.name,
+        output,
+        inputs: st.inputs.map((n) => cell.nets[n]),
+        kind: st.kind,
         vm: null,
-        vmDefinition: null,
         gain: null,
-        maxGain: null,
         vil: null,
         vih: null,
         voh: null,
@@ -105,6 +98,10 @@ export function stageRows(cell: Cell, analyses: readonly StageAnalysis[]): Stage
         nmh: null,
         nml: null,
         corner: null,
+        held: [],
+        vmDefinition: null,
+        maxGain: null,
+        ...where,
         parameters: null,
         note: a.skipped ?? (st.notes.join('; ') || null),
       });
@@ -115,13 +112,12 @@ export function stageRows(cell: Cell, analyses: readonly StageAnalysis[]): Stage
       const c = corner.worstMargin;
       const r = c.result;
       rows.push({
-        ...base,
+        cell: cell.name,
+        output,
         inputs: [cell.nets[inp.input], ...c.held.map((h) => cell.nets[h.net])],
-        held: c.held.map((h) => ({ net: cell.nets[h.net], volts: h.high ? corner.vdd : 0 })),
+        kind: st.kind,
         vm: r.vm,
-        vmDefinition: r.vmDefinition,
         gain: r.gainAtVm,
-        maxGain: r.maxGain,
         vil: r.vil,
         vih: r.vih,
         voh: r.voh,
@@ -129,6 +125,10 @@ export function stageRows(cell: Cell, analyses: readonly StageAnalysis[]): Stage
         nmh: r.nmh,
         nml: r.nml,
         corner: corner.corner,
+        held: c.held.map((h) => ({ net: cell.nets[h.net], volts: h.high ? corner.vdd : 0 })),
+        vmDefinition: r.vmDefinition,
+        maxGain: r.maxGain,
+        ...where,
         parameters: sourcesText(corner),
         note: st.notes.length ? st.notes.join('; ') : null,
       });

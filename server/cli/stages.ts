@@ -1,0 +1,129 @@
+// keepwell stages FILE [--cell CELL] [--deck deck.json] [--scale F] [--format json]
+//
+// The per-stage transfer report: for every stage of every cell (or one cell), each
+// swept input with the others held at values that let it control the output, at the
+// corner where the stage is worst: VM, gain at VM, VIL, VIH, VOH, VOL, NMH, NML.
+// The cells are walked by the rule engine, so rails reach a cell from its parents
+// exactly as in `keepwell check`.
+
+import { readFileSync } from 'node:fs';
+import { resolve } from 'node:path';
+import { parseArgs } from 'node:util';
+import { parseSpiceNumber, readDesign } from '../../grammar/index';
+import { checkDesign } from '../../rules/engine';
+import { defaultDeck } from '../../rules/default-deck';
+import { validateDeck } from '../../rules/validate-deck';
+import { stageAnalysesOf, stageRows, type StageRow } from '../../rules/stages';
+import { defineRule, type RuleModule } from '../../rules/types';
+import type { Deck } from '../../shared/deck';
+import { REVIEW_CAUTION } from '../../shared/findings';
+import { z } from 'zod';
+import { loadFiles } from './check';
+
+const USAGE = `usage: keepwell stages FILE… [options]
+
+Prints, for every stage of the netlist, its DC transfer figures per input at its
+worst corner (volts; gain as dV/dV, negative for inverting stages).
+
+options:
+  --cell CELL      only this subcircuit
+  --deck FILE      an exported deck (JSON); default: the built-in deck
+  --scale F        length scale for netlists that set none (e.g. 1e-6 when widths are in µm)
+  --format json    output format (json, the default and only one)
+  -h, --help       this text
+
+exit status: 0 report written, 2 unreadable input, parse errors or unknown cell`;
+
+const COLLECTOR_ID = 'stage.report';
+
+export async function run(args: string[]): Promise<number> {
+  let values: { cell?: string; deck?: string; scale?: string; format?: string; help?: boolean };
+  let positionals: string[];
+  try {
+    const parsed = parseArgs({
+      args,
+      allowPositionals: true,
+      options: {
+        cell: { type: 'string' },
+        deck: { type: 'string' },
+        scale: { type: 'string' },
+        format: { type: 'string' },
+        help: { type: 'boolean', short: 'h' },
+      },
+    });
+    values = parsed.values;
+    positionals = parsed.positionals;
+  } catch (e) {
+    process.stderr.write(`keepwell stages: ${(e as Error).message}\n\n${USAGE}\n`);
+    return 2;
+  }
+  if (values.help) {
+    process.stdout.write(USAGE + '\n');
+    return 0;
+  }
+  const fail = (message: string) => {
+    process.stderr.write(`keepwell stages: ${message}\n`);
+    return 2;
+  };
+  if (!positionals.length) return fail(`no netlist files given\n\n${USAGE}`);
+  if ((values.format ?? 'json') !== 'json') return fail(`unknown format "${values.format}" (available: json)`);
+  let scale: number | undefined;
+  if (values.scale !== undefined) {
+    const r = parseSpiceNumber(values.scale);
+    if (!r.ok || !(r.value > 0) || r.value > 1) return fail(`--scale "${values.scale}" is not a length scale between 0 and 1 (e.g. 1e-6)`);
+    scale = r.value;
+  }
+
+  let deck: Deck = defaultDeck();
+  let loaded: ReturnType<typeof loadFiles>;
+  try {
+    if (values.deck) {
+      const path = resolve(process.env.INIT_CWD ?? process.cwd(), values.deck);
+      const v = validateDeck(JSON.parse(readFileSync(path, 'utf8')));
+      if (!v.ok) return fail(`${values.deck}: not a valid deck:\n${v.issues.map((i) => `  ${i.path || '(deck)'}: ${i.message}`).join('\n')}`);
+      deck = v.deck;
+    }
+    loaded = loadFiles(positionals);
+  } catch (e) {
+    return fail((e as Error).message);
+  }
+
+  const design = readDesign(loaded.files, {
+    entry: loaded.entries,
+    ...(scale !== undefined ? { scale } : {}),
+    defaultScale: deck.scale,
+    deviceMap: deck.deviceMap,
+    supplies: deck.supplies,
+  });
+  const shown = (file: string) => loaded.display.get(file) ?? file;
+  for (const d of design.diagnostics) process.stderr.write(`${shown(d.file)}:${d.line}:${d.column}: ${d.severity}: ${d.message}\n`);
+  if (design.diagnostics.some((d) => d.severity === 'error')) return 2;
+
+  let cells: string[] | undefined;
+  if (values.cell) {
+    const wanted = values.cell.toLowerCase();
+    cells = [...design.cells.values()].filter((c) => c.name.toLowerCase() === wanted).map((c) => c.key);
+    if (!cells.length) return fail(`no cell "${values.cell}" in the netlist`);
+  }
+
+  // The engine visits each cell once per distinct port context; a collector rule gathers the rows.
+  const rows: StageRow[] = [];
+  const seen = new Set<string>();
+  const collector = defineRule({
+    meta: { id: COLLECTOR_ID, title: 'Stage report', area: 'stage', rationale: '', fix: '', defaultSeverity: 'info' },
+    params: z.object({}),
+    check(ctx) {
+      for (const row of stageRows(ctx.cell, stageAnalysesOf(ctx))) {
+        const key = JSON.stringify(row);
+        if (seen.has(key)) continue;
+        seen.add(key);
+        rows.push({ ...row, file: shown(row.file) });
+      }
+    },
+  }) as unknown as RuleModule;
+  const run: Deck = { ...deck, rules: { ...deck.rules, [COLLECTOR_ID]: { enabled: true, severity: 'info', params: {} } } };
+  checkDesign(design, run, { rules: [collector], ...(cells ? { cells } : {}) });
+
+  process.stdout.write(JSON.stringify({ stages: rows, deck: deck.name, caution: REVIEW_CAUTION }, null, 2) + '\n');
+  return 0;
+}
