@@ -10,6 +10,11 @@ type Decoration = monaco.editor.IModelDeltaDecoration;
 
 const TONE_WORD = { error: 'Error', warning: 'Warning', info: 'Info', waived: 'Waived' } as const;
 
+/** Hover texts are Markdown; net names like `a_85_193#` or `bl[3]` must stay literal. */
+function literalMarkdown(text: string) {
+  return text.replace(/[\\`*_{}[\]()#+\-.!|<>~]/g, '\\$&');
+}
+
 function toDecorations(highlights: HighlightRange[], marks: GutterMark[], lineCount: number): Decoration[] {
   const clamp = (line: number) => Math.min(Math.max(1, Math.floor(line)), Math.max(1, lineCount));
   const out: Decoration[] = [];
@@ -32,7 +37,7 @@ function toDecorations(highlights: HighlightRange[], marks: GutterMark[], lineCo
       range: new monaco.Range(line, 1, line, 1),
       options: {
         glyphMarginClassName: `kw-glyph kw-glyph-${m.tone}`,
-        glyphMarginHoverMessage: { value: `**${TONE_WORD[m.tone]}:** ${m.label}` },
+        glyphMarginHoverMessage: { value: `**${TONE_WORD[m.tone]}:** ${literalMarkdown(m.label)}` },
         stickiness: monaco.editor.TrackedRangeStickiness.NeverGrowsWhenTypingAtEdges,
       },
     });
