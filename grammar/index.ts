@@ -15,7 +15,7 @@ export { netlistLexer, netlistTokens, tokenize, statementChunks, type FieldsPayl
 export { compileExpression, evaluate, type ExprNode, type CompiledExpr } from './expression';
 export { parseSpiceNumber, looksNumeric } from './numbers';
 export { lineStarts, lineOf, LocationCursor } from './source';
-export { normalizePath, resolveInclude } from './paths';
+export { normalizePath, resolveInclude, includeReferences } from './paths';
 
 /** Read a set of files (relative path with forward slashes → text) into a design. */
 export function readDesign(files: ReadonlyMap<string, string> | Record<string, string>, options: ReadOptions): Design {

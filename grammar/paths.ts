@@ -30,3 +30,18 @@ export function resolveInclude(fromFile: string, written: string): { path: strin
   const joined = normalizePath(dir ? `${dir}/${raw}` : raw);
   return joined === null ? { outside: true } : { path: joined };
 }
+
+const INCLUDE_LINE = /^[ \t]*\.(?:include|inc|lib)[ \t]+(?:"([^"\r\n]*)"|'([^'\r\n]*)'|([^\s'"]+))/gim;
+
+/**
+ * The file names a netlist's `.include`/`.inc`/`.lib` lines mention, as written,
+ * found without a full parse (so that a command line can load them before reading
+ * the set). `.lib SECTION` section headers appear too; callers ignore names that are
+ * not files.
+ */
+export function includeReferences(text: string): string[] {
+  const out: string[] = [];
+  INCLUDE_LINE.lastIndex = 0;
+  for (let m = INCLUDE_LINE.exec(text); m; m = INCLUDE_LINE.exec(text)) out.push(m[1] ?? m[2] ?? m[3]);
+  return out;
+}
