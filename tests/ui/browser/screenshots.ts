@@ -9,6 +9,7 @@ import type { Browser } from 'playwright-core';
 import { build } from 'vite';
 import type { User } from '../../../shared/api/auth';
 import { ARTIFACTS_DIR, launchBrowser, openPage, screenshot, servePreview, type GuardedPage } from '../../support/browser';
+import { syntax } from '../../../src/design/palette';
 import { blocks, outbox, users } from '../fixtures';
 import { printScan, scanBuild } from './check-build';
 import { DEMO_PASSWORD, mockApi } from './mock-api';
@@ -171,17 +172,22 @@ async function main() {
         page.on('request', (r) => requested.push(r.url()));
         await page.locator('.view-line', { hasText: 'Mkeep' }).waitFor();
         // A string, not a function: the TypeScript runner would wrap named helpers in code the page lacks.
-        const colours: { mosfet: string | null; comment: string | null; command: string | null; node: string | null; font: string } = await page.evaluate(`(() => {
+        const readColours = `(() => {
+          // Monaco writes spaces as no-break spaces and merges neighbouring tokens of one colour.
+          const norm = (t) => t.replace(/\\u00a0/g, ' ').trim();
           const colour = (text) => {
-            // Monaco writes spaces as no-break spaces and merges neighbouring tokens of one colour.
-            const norm = (t) => t.replace(/\u00a0/g, ' ').trim();
             const el = [...document.querySelectorAll('.view-line span span')].find((s) => norm(s.textContent) === text || norm(s.textContent).startsWith(text + ' '));
             return el ? getComputedStyle(el).color : null;
           };
-          return { mosfet: colour('Mkeep'), comment: colour('* output inverter'), command: colour('.subckt'), node: colour('dyn clk'), font: getComputedStyle(document.querySelector('.view-lines')).fontFamily };
-        })()`);
+          return { mosfet: colour('Mkeep'), comment: colour('* output inverter'), command: colour('.subckt'), node: colour('dyn clk vdd vdd pch'), font: getComputedStyle(document.querySelector('.view-lines')).fontFamily };
+        })()`;
+        const rgb = (hex: string) => `rgb(${[1, 3, 5].map((i) => parseInt(hex.slice(i, i + 2), 16)).join(', ')})`;
+        const expected = { mosfet: rgb(syntax.mosfet), comment: rgb(syntax.comment), command: rgb(syntax.structure), node: rgb(syntax.text) };
+        // Monaco colours lines after it has tokenized them, a moment after the text appears.
+        await page.waitForFunction(`${readColours}.mosfet === ${JSON.stringify(expected.mosfet)}`, undefined, { timeout: 10_000 }).catch(() => undefined);
+        const colours = (await page.evaluate(readColours)) as typeof expected & { font: string };
         console.log(`  colours ${JSON.stringify(colours)}`);
-        check(!!colours.mosfet && colours.mosfet !== colours.node && colours.comment !== colours.node && colours.command !== colours.node, 'editor: element, comment and dot-command coloured apart from node names');
+        for (const key of Object.keys(expected) as (keyof typeof expected)[]) check(colours[key] === expected[key], `editor: ${key} coloured ${expected[key]} (got ${colours[key]})`);
         check(colours.font.includes('IBM Plex Mono'), 'editor: set in IBM Plex Mono');
         check((await page.locator('.kw-glyph-error').count()) === 1 && (await page.locator('.kw-line-warning').count()) >= 2, 'editor: gutter marks and line tints drawn');
         await page.locator('.kw-glyph-error').click();
