@@ -14,6 +14,7 @@ import { adminRoutes } from './routes/admin';
 import { auditRoutes } from './routes/audit';
 import { authRoutes } from './routes/auth';
 import { blockRoutes } from './routes/blocks';
+import { deckRoutes, ruleCatalogueRoutes } from './routes/decks';
 import { healthRoutes } from './routes/health';
 
 export function apiRouter(ctx: AppContext): Router {
@@ -23,5 +24,7 @@ export function apiRouter(ctx: AppContext): Router {
   api.use('/admin', adminRoutes(ctx));
   api.use('/blocks', blockRoutes(ctx));
   api.use('/audit', auditRoutes());
+  api.use('/decks', deckRoutes(ctx));
+  api.use('/rules', ruleCatalogueRoutes());
   return api;
 }

@@ -66,6 +66,7 @@ export async function seedDemo(sequelize: Sequelize): Promise<SeedResult> {
           name: deckName,
           description: 'The team deck every Lantern block is checked against.',
           defaultVersionId: null,
+          teamDefault: true,
         },
         { transaction },
       );

@@ -12,6 +12,8 @@ import type { Permission } from '../../shared/roles';
 import type { Team } from '../../server/db/models';
 import { MailMessage } from '../../server/db/models';
 import { createUser, uniqueEmail, type CreatedUser, type TestEnv } from './helpers';
+import { defaultDeck } from '../../rules/default-deck';
+import { INVERTER_NETLIST, makeDeck, makeNetlist, type DeckFixture } from './decks-fixtures';
 
 export interface RouteFixture {
   env: TestEnv;
@@ -55,7 +57,56 @@ export const ROUTES: RouteCase[] = [
   { method: 'get', path: (fx) => `/api/blocks/${fx.blockId}`, permission: 'design.read' },
 
   { method: 'get', path: '/api/audit', permission: 'audit.read' },
+
+  // Rule decks: each attempt gets fresh decks, so changing routes can succeed once per role.
+  { method: 'get', path: '/api/decks', permission: 'design.read' },
+  { method: 'post', path: '/api/decks', permission: 'deck.edit', body: () => ({ name: unique('deck') }) },
+  { method: 'get', path: async (fx) => `/api/decks/${(await makeDeck(fx.team.id)).deck.id}`, permission: 'design.read' },
+  {
+    method: 'get',
+    path: async (fx) => {
+      const { published, draft } = await makeDeck(fx.team.id, { draft: true });
+      return `/api/decks/diff?from=${published.id}&to=${draft!.id}`;
+    },
+    permission: 'design.read',
+  },
+  { method: 'post', path: async (fx) => `/api/decks/${(await makeDeck(fx.team.id)).deck.id}/drafts`, permission: 'deck.edit', body: () => ({}) },
+  { method: 'get', path: async (fx) => deckVersionPath(await makeDeck(fx.team.id)), permission: 'design.read' },
+  {
+    method: 'patch',
+    path: async (fx) => deckDraftPath(await makeDeck(fx.team.id, { draft: true })),
+    permission: 'deck.edit',
+    body: () => ({ lockVersion: 0, changes: [{ op: 'replace', path: '/slowestClockPeriod', value: 200e-9 }] }),
+  },
+  {
+    method: 'put',
+    path: async (fx) => `${deckDraftPath(await makeDeck(fx.team.id, { draft: true }))}/content`,
+    permission: 'deck.edit',
+    body: () => ({ lockVersion: 0, content: { ...defaultDeck(), scale: 1e-6 } }),
+  },
+  { method: 'delete', path: async (fx) => deckDraftPath(await makeDeck(fx.team.id, { draft: true })), permission: 'deck.edit' },
+  {
+    method: 'post',
+    path: async (fx) => `${deckDraftPath(await makeDeck(fx.team.id, { draft: true }))}/publish`,
+    permission: 'deck.publish',
+    body: () => ({ lockVersion: 0, changeNote: 'published by the permission table' }),
+  },
+  { method: 'post', path: async (fx) => `${deckVersionPath(await makeDeck(fx.team.id))}/default`, permission: 'deck.publish', body: () => ({}) },
+  { method: 'get', path: async (fx) => `${deckVersionPath(await makeDeck(fx.team.id))}/export`, permission: 'design.read' },
+  {
+    method: 'post',
+    path: async (fx) => {
+      await makeNetlist(fx.team.id, fx.blockId, { 'top.sp': INVERTER_NETLIST });
+      return `${deckDraftPath(await makeDeck(fx.team.id, { draft: true }))}/preview`;
+    },
+    permission: 'deck.edit',
+    body: () => ({}),
+  },
+  { method: 'get', path: '/api/rules', permission: 'design.read' },
 ];
+
+const deckVersionPath = (d: DeckFixture) => `/api/decks/${d.deck.id}/versions/${d.published.id}`;
+const deckDraftPath = (d: DeckFixture) => `/api/decks/${d.deck.id}/versions/${d.draft!.id}`;
 
 export async function makeRouteFixture(env: TestEnv, team: Team, blockId: string): Promise<RouteFixture> {
   const member = await createUser({ team, roles: ['designer'] });

@@ -19,6 +19,8 @@ export class RuleDeck extends Model<InferAttributes<RuleDeck>, InferCreationAttr
   declare description: CreationOptional<string>;
   /** The published version new runs use unless they name another. */
   declare defaultVersionId: string | null;
+  /** The team's default deck (at most one per team): runs that name no version use its default version. */
+  declare teamDefault: CreationOptional<boolean>;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
 
@@ -31,6 +33,7 @@ export class RuleDeck extends Model<InferAttributes<RuleDeck>, InferCreationAttr
         name: { type: DataTypes.TEXT, allowNull: false },
         description: { type: DataTypes.TEXT, allowNull: false, defaultValue: '' },
         defaultVersionId: { type: DataTypes.UUID, allowNull: true },
+        teamDefault: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
         createdAt: DataTypes.DATE,
         updatedAt: DataTypes.DATE,
       },
@@ -56,6 +59,11 @@ export class RuleDeckVersion extends Model<InferAttributes<RuleDeckVersion>, Inf
   declare parentVersionId: string | null;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
+
+  declare deck?: NonAttribute<RuleDeck>;
+  declare creator?: NonAttribute<User | null>;
+  declare publisher?: NonAttribute<User | null>;
+  declare parent?: NonAttribute<RuleDeckVersion | null>;
 
   static initModel(sequelize: Sequelize): void {
     RuleDeckVersion.init(
