@@ -2,7 +2,8 @@
 //
 // A network joins its ends `a` and `b`. A series network lists its children from a
 // to b, with `nodes[i]` the internal node between children i and i+1; a parallel
-// network's children all join a and b. Leaves are MOS channels or resistors. The
+// network's children all join a and b, written the same way round (each child's a is
+// the parent's a). Leaves are MOS channels or resistors. The
 // same shape describes a stage's pull-up and pull-down networks over cell nets
 // (rules/stages) and a compact circuit's networks over node indices (below).
 //
@@ -94,6 +95,14 @@ export function conducts(n: Network, on: (element: number) => boolean): boolean 
 
 type Series = Extract<Network, { kind: 'series' }>;
 
+/** A single element, or single elements all in parallel: what the stack Newton solve handles directly. */
+function isSimple(n: Network): boolean {
+  if (n.kind === 'leaf') return true;
+  if (n.kind === 'series') return false;
+  for (const c of n.children) if (c.kind !== 'leaf') return false;
+  return true;
+}
+
 /** Per series network: solver closures made once (making closures on every call is costly), and warm-start state. */
 interface SeriesSolver {
   /** Two-element series: balance of the two currents as a function of the middle node. */
@@ -135,7 +144,9 @@ export class NetworkEvaluator {
         return sum;
       }
       case 'series': {
-        if (n.children.every((c) => c.kind === 'leaf')) {
+        let simple = true;
+        for (const c of n.children) if (!isSimple(c)) simple = false;
+        if (simple) {
           const newton = this.leafStack(n);
           if (newton !== null) return newton;
         }
@@ -172,11 +183,27 @@ export class NetworkEvaluator {
     for (let iter = 0; iter < 40; iter++) {
       for (let j = 0; j < m; j++) v[n.nodes[j]] = x[j];
       for (let j = 0; j < k; j++) {
-        const c = n.children[j] as Extract<Network, { kind: 'leaf' }>;
-        this.leafSlopes(c.element, c.a, c.b);
-        cur[j] = slopes[0];
-        dA[j] = slopes[1];
-        dB[j] = slopes[2];
+        const c = n.children[j];
+        if (c.kind === 'leaf') {
+          this.leafSlopes(c.element, c.a, c.b);
+          cur[j] = slopes[0];
+          dA[j] = slopes[1];
+          dB[j] = slopes[2];
+        } else {
+          // A parallel group of single elements between the same two nodes: currents and slopes add.
+          let i = 0;
+          let da = 0;
+          let db = 0;
+          for (const leaf of (c as Extract<Network, { kind: 'parallel' }>).children as Extract<Network, { kind: 'leaf' }>[]) {
+            this.leafSlopes(leaf.element, leaf.a, leaf.b);
+            i += slopes[0];
+            da += slopes[1];
+            db += slopes[2];
+          }
+          cur[j] = i;
+          dA[j] = da;
+          dB[j] = db;
+        }
       }
       // F_j = I_j − I_{j+1} at node j (between children j and j+1).
       let worst = 0;
@@ -212,10 +239,7 @@ export class NetworkEvaluator {
       if (worst <= this.voltageTolerance) {
         for (let j = 0; j < m; j++) v[n.nodes[j]] = x[j];
         let sum = 0;
-        for (let j = 0; j < k; j++) {
-          const c = n.children[j] as Extract<Network, { kind: 'leaf' }>;
-          sum += this.leaf(c.element, c.a, c.b);
-        }
+        for (let j = 0; j < k; j++) sum += this.current(n.children[j]);
         return sum / k;
       }
     }
@@ -255,23 +279,34 @@ export class NetworkEvaluator {
     channelCurrentSlopes(e.model, e.beta, v[a], v[b], v[e.gate], v[e.bulk], slopes);
   }
 
-  /** Whether some MOS element of the stack cannot conduct for any node voltages inside [lo, hi]. */
+  /** Whether some element of the stack (a device, or every device of a parallel group) cannot conduct for any node voltages inside [lo, hi]. */
   private anyAlwaysOff(n: Series, lo: number, hi: number): boolean {
-    const v = this.v;
     for (const c of n.children) {
-      if (c.kind !== 'leaf') continue;
-      const e = this.elements[c.element];
-      if (e.kind !== 'mos') continue;
+      if (c.kind === 'leaf') {
+        if (this.leafAlwaysOff(c.element, n, lo, hi)) return true;
+      } else if (c.kind === 'parallel') {
+        let all = true;
+        for (const leaf of c.children) if (leaf.kind !== 'leaf' || !this.leafAlwaysOff(leaf.element, n, lo, hi)) all = false;
+        if (all) return true;
+      }
+    }
+    return false;
+  }
+
+  private leafAlwaysOff(element: number, n: Series, lo: number, hi: number): boolean {
+    const v = this.v;
+    {
+      const e = this.elements[element];
+      if (e.kind !== 'mos') return false;
       // The most favourable source is the stack's low end (n-channel) or high end (p-channel); the body effect only raises VT from there.
       const gate = v[e.gate];
-      if (e.gate === n.a || e.gate === n.b || n.nodes.includes(e.gate)) continue;
+      if (e.gate === n.a || e.gate === n.b || n.nodes.indexOf(e.gate) >= 0) return false;
       const drive =
         e.model.polarity === 'n'
           ? gate - lo - thresholdVoltage(e.model, lo - v[e.bulk])
           : hi - gate - thresholdVoltage(e.model, v[e.bulk] - hi);
-      if (drive <= 0) return true;
+      return drive <= 0;
     }
-    return false;
   }
 
   private leaf(index: number, a: number, b: number): number {

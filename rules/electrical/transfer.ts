@@ -137,8 +137,8 @@ export class TransferSolver {
 export function analyseTransfer(circuit: StageCircuit, options: TransferOptions = {}): TransferResult {
   const solver = new TransferSolver(circuit);
   const vdd = circuit.vdd;
-  const intervals = options.gridIntervals ?? 40;
-  const maxStep = (options.maxStepFraction ?? 1 / 40) * vdd;
+  const intervals = options.gridIntervals ?? 24;
+  const maxStep = (options.maxStepFraction ?? 1 / 24) * vdd;
   const maxPoints = options.maxPoints ?? 200;
   const minWidth = vdd / 8192;
 
@@ -217,7 +217,7 @@ export function analyseTransfer(circuit: StageCircuit, options: TransferOptions 
           break;
         }
       }
-      vil = brent(excess, vin[j], right, 1e-9);
+      vil = brent(excess, vin[j], right, 1e-7);
     }
     j = 0;
     while (j < n && !(vin[j] > vm && Math.abs(slopes[j]) <= 1)) j++;
@@ -229,7 +229,7 @@ export function analyseTransfer(circuit: StageCircuit, options: TransferOptions 
           break;
         }
       }
-      vih = brent(excess, left, vin[j], 1e-9);
+      vih = brent(excess, left, vin[j], 1e-7);
     }
   }
 
@@ -237,7 +237,7 @@ export function analyseTransfer(circuit: StageCircuit, options: TransferOptions 
   for (let i = 1; i < n; i++) if (Math.abs(slopes[i]) > Math.abs(slopes[peak])) peak = i;
   const lo = vin[Math.max(peak - 1, 0)];
   const hi = vin[Math.min(peak + 1, n - 1)];
-  const refined = goldenMax((x) => Math.abs(solver.slopeAt(x)), lo, hi, 1e-6 * vdd);
+  const refined = goldenMax((x) => Math.abs(solver.slopeAt(x)), lo, hi, 1e-5 * vdd);
   let maxGainAt = refined.x;
   let maxGain = solver.slopeAt(refined.x);
   if (Math.abs(slopes[peak]) > Math.abs(maxGain)) {

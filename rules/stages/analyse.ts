@@ -199,7 +199,7 @@ export function stageCircuit(
 
 /** Held-input combinations under which `swept` alone decides the output (each a sensitising assignment). */
 export function sensitisingCases(env: StageEnvironment, stage: Stage, swept: number): HeldInput[][] {
-  const logic = stageLogic(stage, env.cell, env.railOf);
+  const logic = stageLogic(stage, env.cell, env.railOf, env.alias);
   const bit = stage.inputs.indexOf(swept);
   const others = stage.inputs.map((_, i) => i).filter((i) => i !== bit);
   const masks: number[] = [];

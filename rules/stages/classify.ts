@@ -1,4 +1,7 @@
 // Classifies a driving stage from its networks and the logic they implement.
+//
+// Written without callbacks on the per-stage path: the server runs under tsx, which
+// names every closure it creates, and a flat netlist has hundreds of thousands of stages.
 
 import type { Cell, RailKind } from '../../grammar/design';
 import type { Network } from '../electrical/network';
@@ -8,44 +11,88 @@ import type { Stage } from './stage';
 /** Beyond this many inputs, truth tables give way to structural checks. */
 export const MAX_TRUTH_TABLE_INPUTS = 14;
 
-export interface StageLogic {
-  /** Gate state of every element for one assignment of the stage inputs (bit i of `mask` = inputs[i] high). */
-  on(element: number, mask: number): boolean;
-  /** Whether the element's gate is one of the stage inputs (its state depends on the assignment). */
-  inputGated(element: number): boolean;
+const ALWAYS = 0;
+const NEVER = 1;
+const INPUT = 2;
+
+/** Gate state of a stage's elements under assignments of its inputs (bit i of a mask = inputs[i] high). */
+export class StageLogic {
+  private readonly state: Uint8Array;
+  private readonly bit: Int32Array;
+  private readonly nChannel: Uint8Array;
+  /** Gate net of each element (after zero-ohm ties), −1 for resistors. */
+  readonly gate: Int32Array;
+  /** 'n', 'p' or 'r' per element. */
+  readonly polarity: ('n' | 'p' | 'r')[];
+
+  constructor(stage: Stage, cell: Cell, railOf: (net: number) => RailKind | undefined, alias?: Int32Array) {
+    const k = stage.elements.length;
+    this.state = new Uint8Array(k);
+    this.bit = new Int32Array(k);
+    this.nChannel = new Uint8Array(k);
+    this.gate = new Int32Array(k);
+    this.polarity = new Array(k);
+    for (let i = 0; i < k; i++) {
+      const el = stage.elements[i];
+      if (el.kind === 'res') {
+        this.state[i] = ALWAYS;
+        this.gate[i] = -1;
+        this.polarity[i] = 'r';
+        continue;
+      }
+      const m = cell.mosfets[el.index];
+      const g = alias ? alias[m.gate] : m.gate;
+      this.gate[i] = g;
+      this.polarity[i] = m.polarity;
+      this.nChannel[i] = m.polarity === 'n' ? 1 : 0;
+      const r = railOf(g);
+      if (r) {
+        this.state[i] = (r === 'power') === (m.polarity === 'n') ? ALWAYS : NEVER;
+        continue;
+      }
+      const b = stage.inputs.indexOf(g);
+      // A gate inside the stage (diode connection, feedback from the output) is taken as conducting.
+      if (b < 0) this.state[i] = ALWAYS;
+      else {
+        this.state[i] = INPUT;
+        this.bit[i] = b;
+      }
+    }
+  }
+
+  on(element: number, mask: number): boolean {
+    const s = this.state[element];
+    if (s === ALWAYS) return true;
+    if (s === NEVER) return false;
+    return ((mask >> this.bit[element]) & 1) === 1 ? this.nChannel[element] === 1 : this.nChannel[element] === 0;
+  }
+
+  /** Whether the element's gate is one of the stage inputs. */
+  inputGated(element: number): boolean {
+    return this.state[element] === INPUT;
+  }
+
   /** Whether the element conducts whatever the inputs are. */
-  alwaysOn(element: number): boolean;
+  alwaysOn(element: number): boolean {
+    return this.state[element] === ALWAYS;
+  }
+
+  allAlwaysOn(elements: readonly number[]): boolean {
+    for (const e of elements) if (this.state[e] !== ALWAYS) return false;
+    return true;
+  }
+
+  anyInputGated(elements: readonly number[]): boolean {
+    for (const e of elements) if (this.state[e] === INPUT) return true;
+    return false;
+  }
 }
 
-export function stageLogic(stage: Stage, cell: Cell, railOf: (net: number) => RailKind | undefined): StageLogic {
-  const inputBit = new Map(stage.inputs.map((net, i) => [net, i]));
-  type Gate = { kind: 'always' | 'never'; bit: 0; n: true } | { kind: 'input'; bit: number; n: boolean };
-  const always: Gate = { kind: 'always', bit: 0, n: true };
-  const never: Gate = { kind: 'never', bit: 0, n: true };
-  const info = stage.elements.map((el): Gate => {
-    if (el.kind === 'res') return always;
-    const m = cell.mosfets[el.index];
-    const g = m.gate;
-    const r = railOf(g);
-    if (r) return (r === 'power') === (m.polarity === 'n') ? always : never;
-    const bit = inputBit.get(g);
-    // A gate inside the stage (diode connection, feedback from the output) is taken as conducting.
-    if (bit === undefined) return always;
-    return { kind: 'input', bit, n: m.polarity === 'n' };
-  });
-  return {
-    on(element, mask) {
-      const x = info[element];
-      if (x.kind === 'always') return true;
-      if (x.kind === 'never') return false;
-      return ((mask >> x.bit) & 1) === 1 ? x.n : !x.n;
-    },
-    inputGated: (element) => info[element].kind === 'input',
-    alwaysOn: (element) => info[element].kind === 'always',
-  };
+export function stageLogic(stage: Stage, cell: Cell, railOf: (net: number) => RailKind | undefined, alias?: Int32Array): StageLogic {
+  return new StageLogic(stage, cell, railOf, alias);
 }
 
-/** `conducts` for one input assignment, without a closure per call. */
+/** Whether a network conducts under one input assignment. */
 export function conductsFor(n: Network, logic: StageLogic, mask: number): boolean {
   switch (n.kind) {
     case 'leaf':
@@ -68,26 +115,22 @@ export function outputValue(stage: Stage, logic: StageLogic, mask: number): Outp
   if (pu && !pd) return 1;
   if (pd && !pu) return 0;
   if (!pu && !pd) return 'Z';
-  if (stage.pullUp && networkElements(stage.pullUp).every((e) => logic.alwaysOn(e))) return 0;
-  if (stage.pullDown && networkElements(stage.pullDown).every((e) => logic.alwaysOn(e))) return 1;
+  if (stage.pullUp && logic.allAlwaysOn(networkElements(stage.pullUp))) return 0;
+  if (stage.pullDown && logic.allAlwaysOn(networkElements(stage.pullDown))) return 1;
   return 'X';
-}
-
-function polarityOf(cell: Cell, stage: Stage, element: number): 'n' | 'p' | 'r' {
-  const el = stage.elements[element];
-  return el.kind === 'res' ? 'r' : cell.mosfets[el.index].polarity;
-}
-
-function gateOf(cell: Cell, stage: Stage, element: number): number {
-  const el = stage.elements[element];
-  return el.kind === 'res' ? -1 : cell.mosfets[el.index].gate;
 }
 
 /** Direct children of a network that are single devices (the precharge position next to the output). */
 function directLeaves(n: Network): number[] {
   if (n.kind === 'leaf') return [n.element];
-  if (n.kind === 'parallel') return n.children.filter((c) => c.kind === 'leaf').map((c) => (c as { element: number }).element);
-  return [];
+  const out: number[] = [];
+  if (n.kind === 'parallel') for (const c of n.children) if (c.kind === 'leaf') out.push(c.element);
+  return out;
+}
+
+function allOf(logic: StageLogic, elements: readonly number[], polarity: 'n' | 'p'): boolean {
+  for (const e of elements) if (logic.polarity[e] !== polarity || !logic.inputGated(e)) return false;
+  return true;
 }
 
 export function classifyStage(
@@ -95,6 +138,7 @@ export function classifyStage(
   cell: Cell,
   railOf: (net: number) => RailKind | undefined,
   isClock: (net: number) => boolean,
+  alias?: Int32Array,
 ): void {
   const { pullUp, pullDown } = stage;
   if (!pullUp || !pullDown) {
@@ -103,23 +147,18 @@ export function classifyStage(
     else stage.notes.push(pullUp ? 'drives only towards the supply' : 'drives only towards ground');
     return;
   }
-  const logic = stageLogic(stage, cell, railOf);
+  const logic = new StageLogic(stage, cell, railOf, alias);
   const up = networkElements(pullUp);
   const down = networkElements(pullDown);
   const k = stage.inputs.length;
   const exhaustive = k <= MAX_TRUTH_TABLE_INPUTS;
 
   // Static complementary: p-channel up, n-channel down, input-gated, and exactly one network conducting for every input combination.
-  const shapeComplementary =
-    up.every((e) => polarityOf(cell, stage, e) === 'p' && logic.inputGated(e)) &&
-    down.every((e) => polarityOf(cell, stage, e) === 'n' && logic.inputGated(e));
-  if (shapeComplementary) {
+  if (allOf(logic, up, 'p') && allOf(logic, down, 'n')) {
     let complementary = true;
     if (exhaustive) {
       for (let mask = 0; mask < 1 << k && complementary; mask++) {
-        const pu = conductsFor(pullUp, logic, mask);
-        const pd = conductsFor(pullDown, logic, mask);
-        complementary = pu !== pd;
+        complementary = conductsFor(pullUp, logic, mask) !== conductsFor(pullDown, logic, mask);
       }
     } else stage.notes.push(`complementary by structure only (${k} inputs, truth table not enumerated)`);
     if (complementary) {
@@ -128,42 +167,40 @@ export function classifyStage(
     }
   }
 
-  const upLoad = up.every((e) => logic.alwaysOn(e));
-  const downLoad = down.every((e) => logic.alwaysOn(e));
-  if ((upLoad && down.some((e) => logic.inputGated(e))) || (downLoad && up.some((e) => logic.inputGated(e)))) {
+  const upLoad = logic.allAlwaysOn(up);
+  const downLoad = logic.allAlwaysOn(down);
+  if ((upLoad && logic.anyInputGated(down)) || (downLoad && logic.anyInputGated(up))) {
     stage.kind = 'ratioed';
     return;
   }
 
   // Dynamic: a precharge device next to the output, gated by a net that also gates the evaluation network (a footer) or that the clock hint names.
-  for (const [pre, evaluate, style, prePolarity] of [
-    [pullUp, pullDown, 'n-evaluate', 'p'],
-    [pullDown, pullUp, 'p-evaluate', 'n'],
-  ] as const) {
-    const evalElements = networkElements(evaluate);
-    for (const e of directLeaves(pre)) {
-      if (polarityOf(cell, stage, e) !== prePolarity || !logic.inputGated(e)) continue;
-      const clock = gateOf(cell, stage, e);
-      const footer = evalElements.filter((x) => gateOf(cell, stage, x) === clock);
+  for (let side = 0; side < 2; side++) {
+    const pre = side === 0 ? pullUp : pullDown;
+    const evalElements = side === 0 ? down : up;
+    const prePolarity = side === 0 ? 'p' : 'n';
+    const direct = directLeaves(pre);
+    for (const e of direct) {
+      if (logic.polarity[e] !== prePolarity || !logic.inputGated(e)) continue;
+      const clock = logic.gate[e];
+      const footer: number[] = [];
+      let otherLogic = false;
+      for (const x of evalElements) {
+        if (logic.gate[x] === clock) footer.push(x);
+        else if (logic.inputGated(x)) otherLogic = true;
+      }
       const byName = isClock(clock);
-      const otherLogic = evalElements.some((x) => logic.inputGated(x) && gateOf(cell, stage, x) !== clock);
       if ((footer.length || byName) && otherLogic) {
+        const precharge: number[] = [];
+        for (const x of direct) if (logic.gate[x] === clock) precharge.push(x);
         stage.kind = 'dynamic';
-        stage.dynamic = {
-          style,
-          clock,
-          precharge: directLeaves(pre).filter((x) => gateOf(cell, stage, x) === clock),
-          footer,
-          clockByName: byName && !footer.length,
-        };
+        stage.dynamic = { style: side === 0 ? 'n-evaluate' : 'p-evaluate', clock, precharge, footer, clockByName: byName && !footer.length };
         return;
       }
     }
   }
 
-  const upGated = up.some((e) => logic.inputGated(e));
-  const downGated = down.some((e) => logic.inputGated(e));
-  if (upGated && downGated && exhaustive) {
+  if (logic.anyInputGated(up) && logic.anyInputGated(down) && exhaustive) {
     for (let mask = 0; mask < 1 << k; mask++) {
       if (outputValue(stage, logic, mask) === 'Z') {
         stage.kind = 'clocked';

@@ -8,6 +8,10 @@
 // rails drives that net, a block joining observed nets without touching a rail is a
 // pass stage (a pass device or transmission gate). Each driven net's blocks become
 // one stage with its pull-up and pull-down networks as series/parallel trees.
+//
+// A flat netlist can hold a million devices in one cell, so the work per device is
+// kept to typed arrays and loops (no callbacks on the per-stage path: tsx names every
+// closure it creates, which costs more than the work inside).
 
 import type { Cell, RailKind, SourceLoc } from '../../grammar/design';
 import type { Network } from '../electrical/network';
@@ -37,14 +41,18 @@ class UnionFind {
   }
 }
 
-interface Edge {
-  element: StageElement;
-  a: number;
-  b: number;
-  /** Gate net (mos), -1 for resistors. */
-  gate: number;
-  polarity: 'n' | 'p' | 'r';
-  loc: SourceLoc;
+const POLARITY_N = 0;
+const POLARITY_P = 1;
+const POLARITY_R = 2;
+const RAIL_NONE = 0;
+const RAIL_POWER = 1;
+const RAIL_GROUND = 2;
+
+interface BlockInfo {
+  edges: number[];
+  observed: number[];
+  power: boolean;
+  ground: boolean;
 }
 
 export function extractStages(cell: Cell, rails: readonly (RailKind | undefined)[], options: StageOptions = {}): CellStages {
@@ -55,101 +63,163 @@ export function extractStages(cell: Cell, rails: readonly (RailKind | undefined)
   for (const o of cell.others) if (o.kind === 'res' && o.value === 0) wires.union(o.a, o.b);
   const alias = new Int32Array(netCount);
   for (let i = 0; i < netCount; i++) alias[i] = wires.find(i);
-  const rail: (RailKind | undefined)[] = new Array(netCount);
-  for (let i = 0; i < netCount; i++) if (rails[i]) rail[alias[i]] = rails[i];
-  const railOf = (net: number) => rail[alias[net]];
+  const railCode = new Uint8Array(netCount);
+  for (let i = 0; i < netCount; i++) {
+    const r = rails[i];
+    if (r) railCode[alias[i]] = r === 'power' ? RAIL_POWER : RAIL_GROUND;
+  }
+  const railAt = (net: number) => railCode[alias[net]];
+  const railOf = (net: number): RailKind | undefined => {
+    const c = railCode[alias[net]];
+    return c === RAIL_POWER ? 'power' : c === RAIL_GROUND ? 'ground' : undefined;
+  };
 
-  const edges: Edge[] = [];
-  cell.mosfets.forEach((m, index) => {
+  // Channel elements as parallel typed arrays.
+  const total = cell.mosfets.length + cell.others.length;
+  const edgeA = new Int32Array(total);
+  const edgeB = new Int32Array(total);
+  const edgeGate = new Int32Array(total);
+  const edgePolarity = new Uint8Array(total);
+  const edgeIndex = new Int32Array(total);
+  let edgeCount = 0;
+  for (let i = 0; i < cell.mosfets.length; i++) {
+    const m = cell.mosfets[i];
     const a = alias[m.drain];
     const b = alias[m.source];
-    if (railOf(a) && railOf(b)) return; // both ends on rails: a decoupling or tie device, no stage
-    edges.push({ element: { kind: 'mos', index }, a, b, gate: alias[m.gate], polarity: m.polarity, loc: m.loc });
-  });
-  cell.others.forEach((o, index) => {
-    if (o.kind !== 'res' || o.value === 0) return;
+    if (railCode[a] && railCode[b]) continue; // both ends on rails: a decoupling or tie device, no stage
+    edgeA[edgeCount] = a;
+    edgeB[edgeCount] = b;
+    edgeGate[edgeCount] = alias[m.gate];
+    edgePolarity[edgeCount] = m.polarity === 'n' ? POLARITY_N : POLARITY_P;
+    edgeIndex[edgeCount++] = i;
+  }
+  const firstResistor = edgeCount;
+  for (let i = 0; i < cell.others.length; i++) {
+    const o = cell.others[i];
+    if (o.kind !== 'res' || o.value === 0) continue;
     const a = alias[o.a];
     const b = alias[o.b];
-    if (railOf(a) && railOf(b)) return;
-    edges.push({ element: { kind: 'res', index }, a, b, gate: -1, polarity: 'r', loc: o.loc });
-  });
+    if (railCode[a] && railCode[b]) continue;
+    edgeA[edgeCount] = a;
+    edgeB[edgeCount] = b;
+    edgeGate[edgeCount] = -1;
+    edgePolarity[edgeCount] = POLARITY_R;
+    edgeIndex[edgeCount++] = i;
+  }
+  const elementOf = (e: number): StageElement => ({ kind: e < firstResistor ? 'mos' : 'res', index: edgeIndex[e] });
+  const locOf = (e: number): SourceLoc => (e < firstResistor ? cell.mosfets[edgeIndex[e]].loc : cell.others[edgeIndex[e]].loc);
 
   // Observed nets.
   const observed = new Uint8Array(netCount);
   for (const m of cell.mosfets) observed[alias[m.gate]] = 1;
   for (const p of cell.ports) observed[alias[p]] = 1;
   for (const inst of cell.instances) for (const p of inst.pins) observed[alias[p]] = 1;
-  const toPower = new Uint8Array(netCount);
-  const toGround = new Uint8Array(netCount);
-  const markRailNeighbour = (x: number, y: number) => {
-    const r = railOf(y);
-    if (r === 'power') toPower[x] = 1;
-    else if (r === 'ground') toGround[x] = 1;
-  };
-  for (const e of edges) {
-    markRailNeighbour(e.a, e.b);
-    markRailNeighbour(e.b, e.a);
+  const railNeighbours = new Uint8Array(netCount);
+  for (let e = 0; e < edgeCount; e++) {
+    railNeighbours[edgeA[e]] |= railCode[edgeB[e]];
+    railNeighbours[edgeB[e]] |= railCode[edgeA[e]];
   }
-  for (let i = 0; i < netCount; i++) if (toPower[i] && toGround[i]) observed[i] = 1;
-  for (let i = 0; i < netCount; i++) if (railOf(i)) observed[i] = 0;
+  for (let i = 0; i < netCount; i++) {
+    if (railNeighbours[i] === (RAIL_POWER | RAIL_GROUND)) observed[i] = 1;
+    if (railCode[i]) observed[i] = 0;
+  }
 
   // Channel-connected components (cut at rails) and blocks (cut at rails and observed nets).
-  const components = new UnionFind(edges.length);
-  const blocks = new UnionFind(edges.length);
+  const components = new UnionFind(edgeCount);
+  const blocks = new UnionFind(edgeCount);
   const firstOnNet = new Int32Array(netCount).fill(-1);
   const firstOnInternal = new Int32Array(netCount).fill(-1);
-  const join = (x: number, i: number) => {
-    if (railOf(x)) return;
-    if (firstOnNet[x] < 0) firstOnNet[x] = i;
-    else components.union(firstOnNet[x], i);
-    if (observed[x]) return;
-    if (firstOnInternal[x] < 0) firstOnInternal[x] = i;
-    else blocks.union(firstOnInternal[x], i);
-  };
-  edges.forEach((e, i) => {
-    join(e.a, i);
-    join(e.b, i);
-  });
-  const blockMembers = new Map<number, number[]>();
-  edges.forEach((_, i) => {
-    const root = blocks.find(i);
-    const list = blockMembers.get(root);
-    if (list) list.push(i);
-    else blockMembers.set(root, [i]);
-  });
-
-  const endOf = (net: number) => {
-    const r = railOf(net);
-    return r === 'power' ? POWER_END : r === 'ground' ? GROUND_END : net;
-  };
-
-  interface BlockInfo {
-    edges: number[];
-    observed: number[];
-    power: boolean;
-    ground: boolean;
+  for (let e = 0; e < edgeCount; e++) {
+    for (let side = 0; side < 2; side++) {
+      const x = side === 0 ? edgeA[e] : edgeB[e];
+      if (railCode[x]) continue;
+      if (firstOnNet[x] < 0) firstOnNet[x] = e;
+      else components.union(firstOnNet[x], e);
+      if (observed[x]) continue;
+      if (firstOnInternal[x] < 0) firstOnInternal[x] = e;
+      else blocks.union(firstOnInternal[x], e);
+    }
   }
+  // Members of each block as linked lists (roots precede their members: union keeps the smaller index).
+  const blockHead = new Int32Array(edgeCount).fill(-1);
+  const blockNext = new Int32Array(edgeCount).fill(-1);
+  const blockTail = new Int32Array(edgeCount).fill(-1);
+  const roots: number[] = [];
+  for (let e = 0; e < edgeCount; e++) {
+    const r = blocks.find(e);
+    if (blockHead[r] < 0) {
+      blockHead[r] = e;
+      roots.push(r);
+    } else blockNext[blockTail[r]] = e;
+    blockTail[r] = e;
+  }
+
   const describe = (list: number[]): BlockInfo => {
-    const obs = new Set<number>();
+    const obs: number[] = [];
     let power = false;
     let ground = false;
-    const visit = (x: number) => {
-      const r = railOf(x);
-      if (r === 'power') power = true;
-      else if (r === 'ground') ground = true;
-      else if (observed[x]) obs.add(x);
-    };
-    for (const i of list) {
-      visit(edges[i].a);
-      visit(edges[i].b);
+    for (const e of list) {
+      for (let side = 0; side < 2; side++) {
+        const x = side === 0 ? edgeA[e] : edgeB[e];
+        const r = railCode[x];
+        if (r === RAIL_POWER) power = true;
+        else if (r === RAIL_GROUND) ground = true;
+        else if (observed[x] && !obs.includes(x)) obs.push(x);
+      }
     }
-    return { edges: list, observed: [...obs], power, ground };
+    return { edges: list, observed: obs, power, ground };
   };
 
-  const drivers = new Map<number, BlockInfo[]>();
+  // Edges of `list` grouped into pieces joined through nets other than `out`; each piece must touch one rail kind.
+  const splitAt = (list: number[], out: number): { up: number[]; down: number[]; dangling: number[] } | null => {
+    const uf = new UnionFind(list.length);
+    const first = new Map<number, number>();
+    for (let k = 0; k < list.length; k++) {
+      for (let side = 0; side < 2; side++) {
+        const x = side === 0 ? edgeA[list[k]] : edgeB[list[k]];
+        if (x === out || railCode[x]) continue;
+        const f = first.get(x);
+        if (f === undefined) first.set(x, k);
+        else uf.union(f, k);
+      }
+    }
+    const rail = new Uint8Array(list.length);
+    for (let k = 0; k < list.length; k++) rail[uf.find(k)] |= railCode[edgeA[list[k]]] | railCode[edgeB[list[k]]];
+    const up: number[] = [];
+    const down: number[] = [];
+    const dangling: number[] = [];
+    for (let k = 0; k < list.length; k++) {
+      const r = rail[uf.find(k)];
+      if (r === (RAIL_POWER | RAIL_GROUND)) return null;
+      (r === RAIL_POWER ? up : r === RAIL_GROUND ? down : dangling).push(list[k]);
+    }
+    return { up, down, dangling };
+  };
+
+  // An unobserved block (an unused output, a top-level deck without ports): the net that splits it into a pull-up and a pull-down side.
+  const guessOutput = (list: number[]): number | null => {
+    if (list.length > 64) return null;
+    const degree = new Map<number, number>();
+    for (const e of list) {
+      for (let side = 0; side < 2; side++) {
+        const x = side === 0 ? edgeA[e] : edgeB[e];
+        if (!railCode[x]) degree.set(x, (degree.get(x) ?? 0) + 1);
+      }
+    }
+    const candidates = [...degree].sort((p, q) => q[1] - p[1] || p[0] - q[0]);
+    for (const [c] of candidates) {
+      const sides = splitAt(list, c);
+      if (sides && sides.up.length && sides.down.length) return c;
+    }
+    return null;
+  };
+
+  const driverBlocks = new Map<number, BlockInfo[]>();
   const passGroups = new Map<string, BlockInfo[]>();
   const loose: BlockInfo[] = [];
-  for (const list of blockMembers.values()) {
+  for (const r of roots) {
+    const list: number[] = [];
+    for (let e = blockHead[r]; e >= 0; e = blockNext[e]) list.push(e);
     let info = describe(list);
     if (info.observed.length === 0) {
       const out = guessOutput(list);
@@ -160,198 +230,176 @@ export function extractStages(cell: Cell, rails: readonly (RailKind | undefined)
     }
     if (info.observed.length === 1) {
       const o = info.observed[0];
-      const g = drivers.get(o);
+      const g = driverBlocks.get(o);
       if (g) g.push(info);
-      else drivers.set(o, [info]);
+      else driverBlocks.set(o, [info]);
     } else if (info.observed.length >= 2 && !info.power && !info.ground) {
-      const key = info.observed.slice().sort((x, y) => x - y).join(',');
+      const key = info.observed.sort(ascending).join(',');
       const g = passGroups.get(key);
       if (g) g.push(info);
       else passGroups.set(key, [info]);
     } else loose.push(info);
   }
 
-  // An unobserved block (an unused output, a top-level deck without ports): the net that splits it into a pull-up and a pull-down side.
-  function guessOutput(list: number[]): number | null {
-    if (list.length > 64) return null;
-    const degree = new Map<number, number>();
-    for (const i of list) for (const x of [edges[i].a, edges[i].b]) if (!railOf(x)) degree.set(x, (degree.get(x) ?? 0) + 1);
-    const candidates = [...degree].sort((p, q) => q[1] - p[1] || p[0] - q[0]).map(([x]) => x);
-    for (const c of candidates) {
-      const sides = splitAt(list, c);
-      if (sides && sides.up.length && sides.down.length) return c;
-    }
-    return null;
-  }
-
-  // Edges of `list` grouped into pieces joined through nets other than `out`; each piece must touch one rail kind.
-  function splitAt(list: number[], out: number): { up: number[]; down: number[]; dangling: number[] } | null {
-    const uf = new UnionFind(list.length);
-    const first = new Map<number, number>();
-    list.forEach((ei, k) => {
-      for (const x of [edges[ei].a, edges[ei].b]) {
-        if (x === out || railOf(x)) continue;
-        const f = first.get(x);
-        if (f === undefined) first.set(x, k);
-        else uf.union(f, k);
-      }
-    });
-    const pieces = new Map<number, { list: number[]; power: boolean; ground: boolean }>();
-    list.forEach((ei, k) => {
-      const r = uf.find(k);
-      let p = pieces.get(r);
-      if (!p) pieces.set(r, (p = { list: [], power: false, ground: false }));
-      p.list.push(ei);
-      for (const x of [edges[ei].a, edges[ei].b]) {
-        const rk = railOf(x);
-        if (rk === 'power') p.power = true;
-        else if (rk === 'ground') p.ground = true;
-      }
-    });
-    const up: number[] = [];
-    const down: number[] = [];
-    const dangling: number[] = [];
-    for (const p of pieces.values()) {
-      if (p.power && p.ground) return null;
-      (p.power ? up : p.ground ? down : dangling).push(...p.list);
-    }
-    return { up, down, dangling };
-  }
-
   const stages: Stage[] = [];
   const driverOf = new Map<number, number>();
-  const rank = options.fileRank ?? (() => 0);
+  const rank = options.fileRank;
+  const byLoc = (x: number, y: number) => compareLoc(locOf(x), locOf(y), rank) || x - y;
+  const endOf = (net: number) => {
+    const r = railAt(net);
+    return r === RAIL_POWER ? POWER_END : r === RAIL_GROUND ? GROUND_END : net;
+  };
 
-  function makeStage(edgeList: number[], base: Partial<Stage> & Pick<Stage, 'kind' | 'output' | 'terminals'>, local: Map<number, number>): Stage {
-    const sorted = edgeList.slice().sort((x, y) => compareLoc(edges[x].loc, edges[y].loc, rank) || x - y);
-    const elements = sorted.map((i) => edges[i].element);
-    sorted.forEach((ei, k) => local.set(ei, k));
-    const stageNets = new Set<number>();
-    for (const i of sorted) {
-      if (!railOf(edges[i].a)) stageNets.add(edges[i].a);
-      if (!railOf(edges[i].b)) stageNets.add(edges[i].b);
+  const makeStage = (edgeList: number[], kind: Stage['kind'], output: number | null, terminals: number[], local: Map<number, number>): Stage => {
+    const sorted = edgeList.slice();
+    // Transistors come in netlist order already; only mixed or multi-file stages need the full comparison.
+    if (sorted.length > 1) {
+      let plain = true;
+      const file = locOf(sorted[0]).file;
+      for (const e of sorted) if (e >= firstResistor || locOf(e).file !== file) plain = false;
+      if (plain) sorted.sort(ascending);
+      else sorted.sort(byLoc);
+    }
+    const elements: StageElement[] = new Array(sorted.length);
+    const stageNets: number[] = [];
+    for (let k = 0; k < sorted.length; k++) {
+      const e = sorted[k];
+      elements[k] = elementOf(e);
+      local.set(e, k);
+      if (!railCode[edgeA[e]] && !stageNets.includes(edgeA[e])) stageNets.push(edgeA[e]);
+      if (!railCode[edgeB[e]] && !stageNets.includes(edgeB[e])) stageNets.push(edgeB[e]);
     }
     const inputs: number[] = [];
     const feedback: number[] = [];
-    for (const i of sorted) {
-      const g = edges[i].gate;
-      if (g < 0 || railOf(g)) continue;
-      const list = stageNets.has(g) ? feedback : inputs;
+    for (const e of sorted) {
+      const g = edgeGate[e];
+      if (g < 0 || railCode[g]) continue;
+      const list = stageNets.includes(g) ? feedback : inputs;
       if (!list.includes(g)) list.push(g);
     }
-    const terminals = base.terminals;
+    const internal: number[] = [];
+    for (const x of stageNets) if (!terminals.includes(x)) internal.push(x);
+    internal.sort(ascending);
     return {
       id: stages.length,
       component: components.find(sorted[0]),
-      kind: base.kind,
-      output: base.output,
+      kind,
+      output,
       terminals,
       inputs,
       feedback,
       elements,
-      internal: [...stageNets].filter((x) => !terminals.includes(x)).sort((x, y) => x - y),
-      pullUp: base.pullUp ?? null,
-      pullDown: base.pullDown ?? null,
-      channel: base.channel ?? null,
-      auxiliary: base.auxiliary ?? [],
+      internal,
+      pullUp: null,
+      pullDown: null,
+      channel: null,
+      auxiliary: [],
       dynamic: null,
-      anchor: edges[sorted[0]].loc,
-      notes: base.notes ?? [],
+      anchor: locOf(sorted[0]),
+      notes: [],
     };
-  }
+  };
 
-  const leafOf = (ei: number, local: Map<number, number>): Network => ({
-    kind: 'leaf',
-    element: local.get(ei)!,
-    a: endOf(edges[ei].a),
-    b: endOf(edges[ei].b),
-  });
+  const leaves = (list: number[], local: Map<number, number>): Network[] => {
+    const out: Network[] = new Array(list.length);
+    for (let k = 0; k < list.length; k++) {
+      const e = list[k];
+      out[k] = { kind: 'leaf', element: local.get(e)!, a: endOf(edgeA[e]), b: endOf(edgeB[e]) };
+    }
+    return out;
+  };
 
-  for (const [out, infos] of drivers) {
-    const all = infos.flatMap((i) => i.edges);
+  // A block touching both rails: devices of one polarity tying a stack node (not the output) to the rail they pull towards
+  // are auxiliary (a secondary precharge); the rest must then split into a pull-up and a pull-down side.
+  const splitMixed = (list: number[], out: number) => {
+    for (let pass = 0; pass < 2; pass++) {
+      const polarity = pass === 0 ? POLARITY_P : POLARITY_N;
+      const railKind = pass === 0 ? RAIL_POWER : RAIL_GROUND;
+      const aux: number[] = [];
+      const rest: number[] = [];
+      for (const e of list) {
+        const ra = railCode[edgeA[e]];
+        const rb = railCode[edgeB[e]];
+        const isAux =
+          edgePolarity[e] === polarity && ((ra === railKind && edgeB[e] !== out && !rb) || (rb === railKind && edgeA[e] !== out && !ra));
+        (isAux ? aux : rest).push(e);
+      }
+      if (!aux.length) continue;
+      const sides = splitAt(rest, out);
+      if (!sides) continue;
+      const auxiliary: { edge: number; node: number; rail: 'power' | 'ground' }[] = [];
+      for (const e of aux) auxiliary.push({ edge: e, node: railCode[edgeA[e]] ? edgeB[e] : edgeA[e], rail: pass === 0 ? 'power' : 'ground' });
+      return { up: sides.up, down: sides.down, auxiliary };
+    }
+    return null;
+  };
+
+  const isClock = options.isClock ?? never;
+  for (const [out, infos] of driverBlocks) {
+    const all: number[] = [];
+    for (const info of infos) for (const e of info.edges) all.push(e);
     const notes: string[] = [];
-    let up: number[] = [];
-    let down: number[] = [];
+    const up: number[] = [];
+    const down: number[] = [];
     const auxiliary: { edge: number; node: number; rail: 'power' | 'ground' }[] = [];
     let ok = true;
     for (const info of infos) {
-      if (info.power && !info.ground) up.push(...info.edges);
-      else if (info.ground && !info.power) down.push(...info.edges);
+      if (info.power && !info.ground) for (const e of info.edges) up.push(e);
+      else if (info.ground && !info.power) for (const e of info.edges) down.push(e);
       else if (info.power && info.ground) {
         // Joined through the output itself (an output found by `guessOutput`), or a secondary precharge on a stack node.
-        const split = splitAt(info.edges, out) ?? splitMixed(info.edges, out);
+        const plain = splitAt(info.edges, out);
+        const split = plain ? { up: plain.up, down: plain.down, auxiliary: [] } : splitMixed(info.edges, out);
         if (!split) {
           ok = false;
           notes.push('a path joins the rails without passing through the output');
           continue;
         }
-        up.push(...split.up);
-        down.push(...split.down);
-        if ('auxiliary' in split) auxiliary.push(...split.auxiliary);
+        for (const e of split.up) up.push(e);
+        for (const e of split.down) down.push(e);
+        for (const x of split.auxiliary) auxiliary.push(x);
       }
     }
     const local = new Map<number, number>();
-    const stage = makeStage(all, { kind: 'other', output: out, terminals: [out], notes }, local);
-    stage.auxiliary = auxiliary.map((x) => ({ element: local.get(x.edge)!, node: x.node, rail: x.rail }) satisfies AuxiliaryDevice);
+    const stage = makeStage(all, 'other', out, [out], local);
+    for (const n of notes) stage.notes.push(n);
+    for (const x of auxiliary) stage.auxiliary.push({ element: local.get(x.edge)!, node: x.node, rail: x.rail } satisfies AuxiliaryDevice);
     if (ok) {
-      const auxSet = new Set(auxiliary.map((x) => x.edge));
-      up = up.filter((e) => !auxSet.has(e));
-      down = down.filter((e) => !auxSet.has(e));
-      const pu = reduceSeriesParallel(up.map((e) => leafOf(e, local)), out, POWER_END);
-      const pd = reduceSeriesParallel(down.map((e) => leafOf(e, local)), out, GROUND_END);
+      let upEdges = up;
+      let downEdges = down;
+      if (auxiliary.length) {
+        const auxSet = new Set<number>();
+        for (const x of auxiliary) auxSet.add(x.edge);
+        upEdges = up.filter((e) => !auxSet.has(e));
+        downEdges = down.filter((e) => !auxSet.has(e));
+      }
+      const pu = reduceSeriesParallel(leaves(upEdges, local), out, POWER_END);
+      const pd = reduceSeriesParallel(leaves(downEdges, local), out, GROUND_END);
       stage.pullUp = pu.network;
       stage.pullDown = pd.network;
-      if (pu.network === null && up.length) notes.push(`pull-up is not series/parallel (${pu.reason})`);
-      if (pd.network === null && down.length) notes.push(`pull-down is not series/parallel (${pd.reason})`);
-      if (pu.dangling.length + pd.dangling.length) notes.push('devices with a floating end are left out of the networks');
+      if (pu.network === null && upEdges.length) stage.notes.push(`pull-up is not series/parallel (${pu.reason})`);
+      if (pd.network === null && downEdges.length) stage.notes.push(`pull-down is not series/parallel (${pd.reason})`);
+      if (pu.dangling.length + pd.dangling.length) stage.notes.push('devices with a floating end are left out of the networks');
     }
-    classifyStage(stage, cell, railOf, options.isClock ?? (() => false));
-    driverOf.set(out, stage.id);
+    classifyStage(stage, cell, railOf, isClock, alias);
     stages.push(stage);
   }
 
-  // A block touching both rails: devices of one polarity tying a stack node (not the output) to the rail they pull towards
-  // are auxiliary (a secondary precharge); the rest must then split into a pull-up and a pull-down side.
-  function splitMixed(list: number[], out: number) {
-    for (const [polarity, railKind] of [
-      ['p', 'power'],
-      ['n', 'ground'],
-    ] as const) {
-      const aux = list.filter((ei) => {
-        const e = edges[ei];
-        if (e.polarity !== polarity) return false;
-        const ra = railOf(e.a);
-        const rb = railOf(e.b);
-        return (ra === railKind && e.b !== out && !rb) || (rb === railKind && e.a !== out && !ra);
-      });
-      if (!aux.length) continue;
-      const rest = list.filter((ei) => !aux.includes(ei));
-      const sides = splitAt(rest, out);
-      if (!sides) continue;
-      return {
-        up: sides.up,
-        down: sides.down,
-        auxiliary: aux.map((ei) => ({ edge: ei, node: railOf(edges[ei].a) ? edges[ei].b : edges[ei].a, rail: railKind })),
-      };
-    }
-    return null;
-  }
-
   for (const infos of passGroups.values()) {
-    const all = infos.flatMap((i) => i.edges);
-    const terminals = infos[0].observed.slice().sort((x, y) => x - y);
+    const all: number[] = [];
+    for (const info of infos) for (const e of info.edges) all.push(e);
+    const terminals = infos[0].observed.slice().sort(ascending);
     const local = new Map<number, number>();
-    const stage = makeStage(all, { kind: 'pass', output: null, terminals }, local);
-    if (terminals.length === 2) {
-      stage.channel = reduceSeriesParallel(all.map((e) => leafOf(e, local)), terminals[0], terminals[1]).network;
-    } else stage.notes.push(`joins ${terminals.length} observed nets`);
+    const stage = makeStage(all, 'pass', null, terminals, local);
+    if (terminals.length === 2) stage.channel = reduceSeriesParallel(leaves(all, local), terminals[0], terminals[1]).network;
+    else stage.notes.push(`joins ${terminals.length} observed nets`);
     stages.push(stage);
   }
 
   for (const info of loose) {
     const local = new Map<number, number>();
-    const terminals = info.observed.slice().sort((x, y) => x - y);
-    const stage = makeStage(info.edges, { kind: 'other', output: null, terminals }, local);
+    const terminals = info.observed.slice().sort(ascending);
+    const stage = makeStage(info.edges, 'other', null, terminals, local);
     stage.notes.push(
       info.observed.length === 0 ? 'no observed output' : 'joins several observed nets and the rails through shared internal nodes',
     );
@@ -360,14 +408,23 @@ export function extractStages(cell: Cell, rails: readonly (RailKind | undefined)
 
   // Netlist order of anchors, so reports read top to bottom.
   stages.sort((x, y) => compareLoc(x.anchor, y.anchor, rank));
-  stages.forEach((s, i) => {
+  for (let i = 0; i < stages.length; i++) {
+    const s = stages[i];
     s.id = i;
     if (s.output !== null && s.kind !== 'pass') driverOf.set(s.output, i);
-  });
+  }
   return { stages, driverOf, alias };
 }
 
-function compareLoc(x: SourceLoc, y: SourceLoc, rank: (file: string) => number): number {
-  if (x.file !== y.file) return rank(x.file) - rank(y.file) || (x.file < y.file ? -1 : 1);
+function ascending(x: number, y: number): number {
+  return x - y;
+}
+
+function never(): boolean {
+  return false;
+}
+
+function compareLoc(x: SourceLoc, y: SourceLoc, rank?: (file: string) => number): number {
+  if (x.file !== y.file) return (rank ? rank(x.file) - rank(y.file) : 0) || (x.file < y.file ? -1 : 1);
   return x.line - y.line || x.column - y.column;
 }

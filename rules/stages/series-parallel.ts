@@ -43,7 +43,8 @@ function directNetwork(edges: readonly Network[], from: number, to: number): Net
   let allDirect = true;
   for (const e of edges) if (!((e.a === from && e.b === to) || (e.a === to && e.b === from))) allDirect = false;
   if (allDirect) {
-    const oriented = edges.map((e) => (e.a === from ? e : reverseNetwork(e)));
+    const oriented: Network[] = new Array(edges.length);
+    for (let i = 0; i < edges.length; i++) oriented[i] = edges[i].a === from ? edges[i] : reverseNetwork(edges[i]);
     return oriented.length === 1 ? oriented[0] : { kind: 'parallel', a: from, b: to, children: oriented };
   }
   // A simple chain: walk from `from`, each step along the only unused edge at the current node.
@@ -66,7 +67,8 @@ function directNetwork(edges: readonly Network[], from: number, to: number): Net
     if (at !== to) nodes.push(at);
     if (children.length > edges.length) return null;
   }
-  if (children.length !== edges.length || new Set(nodes).size !== nodes.length || nodes.includes(from)) return null;
+  if (children.length !== edges.length || nodes.includes(from)) return null;
+  for (let i = 0; i < nodes.length; i++) if (nodes.indexOf(nodes[i]) !== i) return null;
   return { kind: 'series', a: from, b: to, children, nodes };
 }
 

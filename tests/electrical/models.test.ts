@@ -136,3 +136,27 @@ describe('parameter sources', () => {
     expect(off.sources.vt0.from).toBe('corner');
   });
 });
+
+describe('stack solutions', () => {
+  it('Newton on a stack with a parallel group agrees with bisection on the same device equations', async () => {
+    const { NetworkEvaluator } = await import('../../rules/electrical/network');
+    const nm = { ...n, lambda: 0.06 };
+    const elements = [0, 1, 2].map(() => ({ kind: 'mos' as const, model: nm, beta: 2e-4, gate: 1, bulk: 0 }));
+    // Node 0 ground, 1 supply (gates), 2 top, 3 middle. A parallel pair in series with one device.
+    const par = { kind: 'parallel' as const, a: 2, b: 3, children: [{ kind: 'leaf' as const, element: 0, a: 2, b: 3 }, { kind: 'leaf' as const, element: 1, a: 2, b: 3 }] };
+    const stack = { kind: 'series' as const, a: 2, b: 0, nodes: [3], children: [par, { kind: 'leaf' as const, element: 2, a: 3, b: 0 }] };
+    const v = new Float64Array([0, 2.5, 1.7, 0]);
+    const newton = new NetworkEvaluator(elements, v).current(stack);
+    // Reference: the middle node by bisection on the current balance (same device equations).
+    let lo = 0;
+    let hi = 1.7;
+    for (let i = 0; i < 200; i++) {
+      const x = 0.5 * (lo + hi);
+      const top = 2 * channelCurrent(nm, 2e-4, 1.7, x, 2.5, 0);
+      const bottom = channelCurrent(nm, 2e-4, x, 0, 2.5, 0);
+      if (top > bottom) lo = x;
+      else hi = x;
+    }
+    expect(newton / channelCurrent(nm, 2e-4, lo, 0, 2.5, 0)).toBeCloseTo(1, 9);
+  });
+});
