@@ -1,0 +1,119 @@
+// A disturbed level passed stage by stage through a chain, drawn as a staircase between the
+// stage's curve Vout = f(Vin) and its mirror Vin = f(Vout). From the start level on the Vin
+// axis the path rises to the curve (the first stage's output), runs across to the mirror (that
+// output read as the next stage's input), rises or falls to the curve again, and so on: with
+// |gain| > 1 at the switching threshold the steps widen out to the rails (the level is
+// restored); with |gain| < 1 they close in on the crossing near VM and never come back.
+
+import type { z } from 'zod';
+import type { chainPlotSchema } from '../../../shared/findings';
+import { copper, ink, well } from '../../design/palette';
+import { formatVolts } from '../findings/quantity';
+import { Axes, linearScale, niceTicks, plotFrame, polylinePath } from './axes';
+import { PlotKey } from './TransferPlot';
+
+export type ChainPlotData = z.infer<typeof chainPlotSchema>;
+
+const WIDTH = 392;
+const HEIGHT = 380;
+const LABELLED_STEPS = 8;
+
+/**
+ * Corners of the staircase in volts, after the start point (L0, 0) on the Vin axis: the level
+ * after stage k+1 is reached at corner k, which sits on the curve (L_k, L_k+1) for even k and
+ * on the mirror (L_k+1, L_k) for odd k.
+ */
+export function staircaseCorners(levels: readonly number[]): { vin: number; vout: number; stage: number; on: 'curve' | 'mirror' }[] {
+  const corners: { vin: number; vout: number; stage: number; on: 'curve' | 'mirror' }[] = [];
+  for (let k = 0; k + 1 < levels.length; k++) {
+    if (k % 2 === 0) corners.push({ vin: levels[k], vout: levels[k + 1], stage: k + 1, on: 'curve' });
+    else corners.push({ vin: levels[k + 1], vout: levels[k], stage: k + 1, on: 'mirror' });
+  }
+  return corners;
+}
+
+export function chainOutcome(plot: ChainPlotData): string {
+  const stages = plot.levels.length - 1;
+  if (plot.restoredAfter !== null)
+    return `Restored after stage ${plot.restoredAfter} of ${stages}: the level is within ${formatVolts(plot.tolerance)} of the clean level.`;
+  const last = plot.levels[plot.levels.length - 1];
+  return `Not restored after ${stages} stage${stages === 1 ? '' : 's'}: the level ends at ${formatVolts(last)}, more than ${formatVolts(plot.tolerance)} from the clean level.`;
+}
+
+export function ChainPlot({ plot, title = 'Level through the chain' }: { plot: ChainPlotData; title?: string }) {
+  const frame = plotFrame(WIDTH, HEIGHT);
+  const x = linearScale([0, plot.vdd], [frame.left, frame.right]);
+  const y = linearScale([0, plot.vdd], [frame.bottom, frame.top]);
+  const ticks = niceTicks(0, plot.vdd);
+  const corners = staircaseCorners(plot.levels);
+  const start = plot.levels[0];
+  const stairXs = [x(start), ...corners.map((c) => x(c.vin))];
+  const stairYs = [y(0), ...corners.map((c) => y(c.vout))];
+  const outcome = chainOutcome(plot);
+
+  return (
+    <figure className="kw-plot" aria-label={title}>
+      <svg viewBox={`0 0 ${WIDTH} ${HEIGHT}`} className="h-auto w-full max-w-[28rem]" role="img" aria-label={`${title}. ${outcome}`} data-plot="chain" fontFamily="IBM Plex Sans, sans-serif">
+        <Axes frame={frame} x={x} y={y} xTitle="Stage input (V)" yTitle="Stage output (V)" xTicks={ticks} yTicks={ticks} />
+        <line x1={x(0)} y1={y(0)} x2={x(plot.vdd)} y2={y(plot.vdd)} stroke={ink[400]} strokeWidth="1" strokeDasharray="1.5 2.5" />
+        <path data-series="curve" d={polylinePath(plot.vin.map(x), plot.vout.map(y))} fill="none" stroke={well[800]} strokeWidth="2.2" />
+        <path data-series="mirror" d={polylinePath(plot.vout.map(x), plot.vin.map(y))} fill="none" stroke={ink[500]} strokeWidth="1.6" strokeDasharray="6 4" />
+        <path data-series="staircase" d={polylinePath(stairXs, stairYs)} fill="none" stroke={copper[600]} strokeWidth="2" strokeLinejoin="round" />
+        <g data-marker="start" transform={`translate(${x(start).toFixed(2)} ${y(0).toFixed(2)})`}>
+          <path d="M0 -1L5 8H-5Z" fill={copper[600]} />
+          <text x={0} y={-6} textAnchor="middle" fontSize="10.5" fontWeight="600" fill={ink[900]} paintOrder="stroke" stroke="white" strokeWidth="3">
+            start {formatVolts(start)}
+          </text>
+        </g>
+        {corners.map((c) => (
+          <g key={c.stage} data-step={c.stage} data-on={c.on} transform={`translate(${x(c.vin).toFixed(2)} ${y(c.vout).toFixed(2)})`}>
+            <circle r="3" fill="white" stroke={copper[700]} strokeWidth="1.6" />
+            {c.stage <= LABELLED_STEPS && (
+              <text x={c.on === 'curve' ? 6 : -6} y={c.on === 'curve' ? -5 : 12} textAnchor={c.on === 'curve' ? 'start' : 'end'} fontSize="10" fill={ink[800]} paintOrder="stroke" stroke="white" strokeWidth="3">
+                {c.stage}
+              </text>
+            )}
+          </g>
+        ))}
+      </svg>
+      <figcaption className="mt-2 text-xs leading-5 text-ink-700">
+        <p className="mb-1.5 font-medium text-ink-900">{outcome}</p>
+        <PlotKey
+          items={[
+            { glyph: 'line', label: 'stage curve' },
+            { glyph: 'dashed', label: 'its mirror' },
+            { glyph: 'staircase', label: 'the level, stage by stage (numbers: stages passed)' },
+          ]}
+        />
+        <table className="mt-2 w-full max-w-sm text-left tabular-nums">
+          <caption className="sr-only">Level after each stage</caption>
+          <thead className="text-ink-500">
+            <tr>
+              <th scope="col" className="py-0.5 pr-3 font-medium">
+                Stage
+              </th>
+              <th scope="col" className="py-0.5 pr-3 font-medium">
+                Input
+              </th>
+              <th scope="col" className="py-0.5 font-medium">
+                Output
+              </th>
+            </tr>
+          </thead>
+          <tbody>
+            {plot.levels.slice(1).map((level, i) => (
+              <tr key={i} data-level-row={i + 1} className={plot.restoredAfter === i + 1 ? 'font-semibold text-ok' : ''}>
+                <td className="py-0.5 pr-3">
+                  {i + 1}
+                  {plot.restoredAfter === i + 1 && <span> ✓ restored</span>}
+                </td>
+                <td className="py-0.5 pr-3">{formatVolts(plot.levels[i])}</td>
+                <td className="py-0.5">{formatVolts(level)}</td>
+              </tr>
+            ))}
+          </tbody>
+        </table>
+      </figcaption>
+    </figure>
+  );
+}
