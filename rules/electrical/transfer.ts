@@ -163,7 +163,14 @@ export function analyseTransfer(circuit: StageCircuit, options: TransferOptions 
     if (!changed) break;
   }
   const n = vin.length;
-  const slopes = vin.map((x, i) => solver.slope(x, vout[i]));
+  // Exact slopes at grid points only where a search needs them.
+  const exact = new Float64Array(n).fill(NaN);
+  const slopeAtPoint = (i: number) => {
+    if (Number.isNaN(exact[i])) exact[i] = solver.slope(vin[i], vout[i]);
+    return exact[i];
+  };
+  // Secant slopes of the grid, between points i and i + 1: enough to find where the curve is steepest.
+  const secant = (i: number) => (vout[i + 1] - vout[i]) / (vin[i + 1] - vin[i]);
   const inverting = vout[0] >= vout[n - 1];
   const voh = Math.max(vout[0], vout[n - 1]);
   const vol = Math.min(vout[0], vout[n - 1]);
@@ -178,7 +185,7 @@ export function analyseTransfer(circuit: StageCircuit, options: TransferOptions 
     const d1 = vout[i + 1] - vin[i + 1];
     if (d0 === 0 || (d0 > 0) !== (d1 > 0)) {
       const x = d0 === 0 ? vin[i] : brent((y) => solver.balance(y, y), vin[i], vin[i + 1], 1e-12);
-      const g = Math.abs(solver.slope(x, x));
+      const g = Math.abs(secant(i));
       if (g > bestGain) {
         bestGain = g;
         vm = x;
@@ -207,43 +214,36 @@ export function analyseTransfer(circuit: StageCircuit, options: TransferOptions 
   let vil: number | null = null;
   let vih: number | null = null;
   if (Math.abs(gainAtVm) > 1) {
-    let j = n - 1;
-    while (j >= 0 && !(vin[j] < vm && Math.abs(slopes[j]) <= 1)) j--;
-    if (j >= 0) {
-      let right = vm;
-      for (let i = j + 1; i < n && vin[i] < vm; i++) {
-        if (Math.abs(slopes[i]) > 1) {
-          right = vin[i];
-          break;
-        }
+    // Walk out from VM over the grid to the first point whose gain magnitude is at most one.
+    let below = 0;
+    while (below < n - 1 && vin[below + 1] < vm) below++;
+    let right = vm;
+    for (let j = below; j >= 0; j--) {
+      if (vin[j] >= vm) continue;
+      if (Math.abs(slopeAtPoint(j)) <= 1) {
+        vil = brent(excess, vin[j], right, 1e-7);
+        break;
       }
-      vil = brent(excess, vin[j], right, 1e-7);
+      right = vin[j];
     }
-    j = 0;
-    while (j < n && !(vin[j] > vm && Math.abs(slopes[j]) <= 1)) j++;
-    if (j < n) {
-      let left = vm;
-      for (let i = j - 1; i >= 0 && vin[i] > vm; i--) {
-        if (Math.abs(slopes[i]) > 1) {
-          left = vin[i];
-          break;
-        }
+    let left = vm;
+    for (let j = below + 1; j < n; j++) {
+      if (vin[j] <= vm) continue;
+      if (Math.abs(slopeAtPoint(j)) <= 1) {
+        vih = brent(excess, left, vin[j], 1e-7);
+        break;
       }
-      vih = brent(excess, left, vin[j], 1e-7);
+      left = vin[j];
     }
   }
 
   let peak = 0;
-  for (let i = 1; i < n; i++) if (Math.abs(slopes[i]) > Math.abs(slopes[peak])) peak = i;
+  for (let i = 1; i < n - 1; i++) if (Math.abs(secant(i)) > Math.abs(secant(peak))) peak = i;
   const lo = vin[Math.max(peak - 1, 0)];
-  const hi = vin[Math.min(peak + 1, n - 1)];
-  const refined = goldenMax((x) => Math.abs(solver.slopeAt(x)), lo, hi, 1e-5 * vdd);
+  const hi = vin[Math.min(peak + 2, n - 1)];
+  const refined = goldenMax((x) => Math.abs(solver.slopeAt(x)), lo, hi, 1e-4 * vdd);
   let maxGainAt = refined.x;
   let maxGain = solver.slopeAt(refined.x);
-  if (Math.abs(slopes[peak]) > Math.abs(maxGain)) {
-    maxGain = slopes[peak];
-    maxGainAt = vin[peak];
-  }
   if (Math.abs(gainAtVm) > Math.abs(maxGain)) {
     maxGain = gainAtVm;
     maxGainAt = vm;

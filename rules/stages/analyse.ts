@@ -311,9 +311,41 @@ function solveStage(env: StageEnvironment, stage: Stage, memo: DesignMemo): Cach
   return { inputs };
 }
 
+/**
+ * A stage's analysis, read through to the memo shared by every stage of the same signature: the
+ * per-input, per-corner objects are built when asked for, not kept for each of a flat netlist's stages.
+ */
+class StageAnalysisView implements StageAnalysis {
+  constructor(
+    readonly stage: Stage,
+    private readonly cached: CachedStage | null,
+    readonly skipped: string | null,
+  ) {}
+
+  get inputs(): InputAnalysis[] {
+    if (!this.cached) return [];
+    const nets = this.stage.inputs;
+    const out: InputAnalysis[] = [];
+    for (const ci of this.cached.inputs) {
+      const corners: CornerAnalysis[] = [];
+      for (const c of ci.corners) {
+        const cases: TransferCase[] = [];
+        for (const x of c.cases) {
+          const held: HeldInput[] = [];
+          for (const h of x.held) held.push({ net: nets[h.input], high: h.high });
+          cases.push({ held, result: x.result });
+        }
+        corners.push({ corner: c.corner, vdd: c.vdd, cases, worstMargin: cases[c.worstMargin], weakestGain: cases[c.weakestGain], models: c.models });
+      }
+      out.push({ input: nets[ci.input], corners });
+    }
+    return out;
+  }
+}
+
 export function analyseStage(env: StageEnvironment, stage: Stage): StageAnalysis {
-  if (!STATIC_KINDS.has(stage.kind)) return { stage, inputs: [], skipped: `${stage.kind} stage: no static transfer curve` };
-  if (!stage.pullUp || !stage.pullDown) return { stage, inputs: [], skipped: 'networks are not series/parallel' };
+  if (!STATIC_KINDS.has(stage.kind)) return new StageAnalysisView(stage, null, `${stage.kind} stage: no static transfer curve`);
+  if (!stage.pullUp || !stage.pullDown) return new StageAnalysisView(stage, null, 'networks are not series/parallel');
   const memo = memoOf(env.design);
   let byDeck = memo.stages.get(env.deck);
   if (!byDeck) memo.stages.set(env.deck, (byDeck = new Map()));
@@ -324,14 +356,7 @@ export function analyseStage(env: StageEnvironment, stage: Stage): StageAnalysis
     byDeck.set(signature, cached);
     memo.stats.signatures++;
   }
-  const inputs: InputAnalysis[] = cached.inputs.map((ci) => ({
-    input: stage.inputs[ci.input],
-    corners: ci.corners.map((c) => {
-      const cases: TransferCase[] = c.cases.map((x) => ({ held: x.held.map((h) => ({ net: stage.inputs[h.input], high: h.high })), result: x.result }));
-      return { corner: c.corner, vdd: c.vdd, cases, worstMargin: cases[c.worstMargin], weakestGain: cases[c.weakestGain], models: c.models };
-    }),
-  }));
-  return { stage, inputs, skipped: inputs.length ? null : 'no input controls the output on its own' };
+  return new StageAnalysisView(stage, cached, cached.inputs.length ? null : 'no input controls the output on its own');
 }
 
 /** Vout(Vin) of one stage, swept input and held inputs given, at one corner (exact solves, for chains). */

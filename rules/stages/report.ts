@@ -83,7 +83,8 @@ export function stageRows(cell: Cell, analyses: readonly StageAnalysis[]): Stage
     const st = a.stage;
     const where = { stage: st.id, devices: stageDeviceNames(cell, st), file: st.anchor.file, line: st.anchor.line };
     const output = st.output === null ? null : cell.nets[st.output];
-    if (!a.inputs.length) {
+    const inputs = a.inputs;
+    if (!inputs.length) {
       rows.push({
         cell: cell.name,
         output,
@@ -107,7 +108,7 @@ export function stageRows(cell: Cell, analyses: readonly StageAnalysis[]): Stage
       });
       continue;
     }
-    for (const inp of a.inputs) {
+    for (const inp of inputs) {
       const corner = worstCorner(inp.corners);
       const c = corner.worstMargin;
       const r = c.result;
