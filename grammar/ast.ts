@@ -1,10 +1,13 @@
 // The typed syntax tree of one netlist file, as the parser builds it: statements in
 // source order, `.subckt` and `.lib` sections as blocks holding their bodies.
+// Element nodes are ids into the `nets` table of the body that holds the element
+// (the file's top level, a `.subckt`, a `.lib` section): `body.nets.names[id]`.
 // Nothing here is resolved yet: includes, parameters, models and subcircuit
 // references are resolved by elaboration (grammar/elaborate.ts).
 
 import type { Diagnostic, PinDirection, SourceLoc } from './design';
 import type { CompiledExpr } from './expression';
+import type { NameTable } from './names';
 
 /** An expression to evaluate per parameter binding, or a bare parameter name (`w=wn`). */
 export interface Expr {
@@ -32,10 +35,10 @@ export interface Param {
 export interface MosStatement {
   kind: 'mos';
   name: string;
-  drain: string;
-  gate: string;
-  source: string;
-  bulk: string;
+  drain: number;
+  gate: number;
+  source: number;
+  bulk: number;
   model: string;
   modelOffset: number;
   w?: Value;
@@ -50,8 +53,7 @@ export interface MosStatement {
 export interface InstanceStatement {
   kind: 'instance';
   name: string;
-  nodes: string[];
-  nodeOffsets: number[];
+  nodes: number[];
   /** Subcircuit (or PDK device) name as written. */
   cell: string;
   cellOffset: number;
@@ -62,8 +64,8 @@ export interface InstanceStatement {
 export interface TwoTerminalStatement {
   kind: 'res' | 'cap';
   name: string;
-  a: string;
-  b: string;
+  a: number;
+  b: number;
   value?: Value;
   valueOffset: number;
   model?: string;
@@ -73,8 +75,8 @@ export interface TwoTerminalStatement {
 export interface SourceStatement {
   kind: 'vsrc' | 'isrc';
   name: string;
-  pos: string;
-  neg: string;
+  pos: number;
+  neg: number;
   /** The DC value when one is written (`V1 a 0 1.8`, `V1 a 0 DC 1.8`); absent for pure transient sources. */
   dc?: Value;
   /** Transient function name (`pulse`, `sin`, `pwl`, …) when the source has one: a signal, not a rail. */
@@ -85,8 +87,8 @@ export interface SourceStatement {
 export interface DiodeStatement {
   kind: 'diode';
   name: string;
-  anode: string;
-  cathode: string;
+  anode: number;
+  cathode: number;
   model: string;
   loc: SourceLoc;
 }
@@ -105,8 +107,11 @@ export interface SubcktStatement {
   nameOffset: number;
   ports: string[];
   portOffsets: number[];
+  /** Net id of each port in `nets` (ports are entered first). */
+  portIds: number[];
   params: Param[];
   body: Statement[];
+  nets: NameTable;
   loc: SourceLoc;
   /** Offsets of the definition's text, `.subckt` to the end of `.ends` (to recognise identical repeats). */
   start: number;
@@ -121,6 +126,7 @@ export interface LibSectionStatement {
   /** Lower-case section name. */
   name: string;
   body: Statement[];
+  nets: NameTable;
   loc: SourceLoc;
   closed: boolean;
 }
@@ -200,6 +206,8 @@ export interface FileAst {
   /** The first line, when it was read as a simulation deck's title. */
   title?: string;
   statements: Statement[];
+  /** Nodes of the top-level statements. */
+  nets: NameTable;
   lineStarts: number[];
   lineCount: number;
   diagnostics: Diagnostic[];

@@ -34,7 +34,8 @@ import { evaluate } from './expression';
 import { NumberCache } from './numbers';
 import { parseNetlist } from './parser';
 import { normalizePath, resolveInclude } from './paths';
-import { lineOf } from './source';
+import { NameTable } from './names';
+import { LocationCursor, lineOf } from './source';
 
 export interface ReadOptions {
   /** Files to start from; default: every file no other file includes. */
@@ -90,6 +91,10 @@ interface CellDef {
   headerParams: Param[];
   localParams: Param[];
   elements: ElementStatement[];
+  /** Runs of `elements` that come from one body (the definition's own, or an included file's), with that body's node table. */
+  segments: { nets: NameTable; file: string; start: number; end: number }[];
+  /** The definition's own node table (ports first); the first entry file's for the top level. */
+  ownNets: NameTable | null;
   pinInfo: PinInfoEntry[];
   /** Static resolution of each X line of the body. */
   targets: Map<InstanceStatement, CellDef | DeviceKind | 'tie' | 'unknown' | 'cut'>;
@@ -252,6 +257,8 @@ class Elaborator {
       headerParams: stmt ? stmt.params : [],
       localParams: [],
       elements: [],
+      segments: [],
+      ownNets: stmt ? stmt.nets : null,
       pinInfo: [],
       targets: new Map(),
       relevant: null,
@@ -263,8 +270,8 @@ class Elaborator {
     return def;
   }
 
-  /** Walk statements into `def` (the top level or a subcircuit body). */
-  private collect(statements: readonly Statement[], def: CellDef, file: string): void {
+  /** Walk statements into `def` (the top level or a subcircuit body); `nets` is the node table of their body. */
+  private collect(statements: readonly Statement[], def: CellDef, file: string, nets: NameTable): void {
     const scope = def === this.top ? this.global : def.scope;
     for (const s of statements) {
       switch (s.kind) {
@@ -274,9 +281,13 @@ class Elaborator {
         case 'cap':
         case 'vsrc':
         case 'isrc':
-        case 'diode':
+        case 'diode': {
+          const last = def.segments[def.segments.length - 1];
+          if (last && last.nets === nets && last.end === def.elements.length) last.end++;
+          else def.segments.push({ nets, file, start: def.elements.length, end: def.elements.length + 1 });
           def.elements.push(s);
           break;
+        }
         case 'subckt':
           this.define(s, scope, file);
           break;
@@ -334,7 +345,7 @@ class Elaborator {
     const inner: Scope = { defs: new Map(), parent: scope, included: new Set() };
     const def = this.newDef(s.name, s, s.loc, inner);
     scope.defs.set(key, def);
-    this.collect(s.body, def, file);
+    this.collect(s.body, def, file, s.nets);
   }
 
   private definitionText(def: CellDef): string | undefined {
@@ -376,6 +387,7 @@ class Elaborator {
     scope.included.add(guard);
     const ast = this.parse(path, false);
     let statements: readonly Statement[] = ast.statements;
+    let nets = ast.nets;
     if (section) {
       const found = ast.statements.find((s) => s.kind === 'libsection' && s.name === section);
       if (!found || found.kind !== 'libsection') {
@@ -383,9 +395,10 @@ class Elaborator {
         return;
       }
       statements = found.body;
+      nets = found.nets;
     }
     this.includeStack.push(path);
-    this.collect(statements, def, path);
+    this.collect(statements, def, path, nets);
     this.includeStack.pop();
   }
 
@@ -667,19 +680,30 @@ class Elaborator {
       return this.globalValue(name);
     };
 
-    const nets = new NetTable(cell);
-    // Ports first, in definition order.
-    const seenPorts = new Set<string>();
-    def.ports.forEach((port, i) => {
-      const lower = port.toLowerCase();
-      if (seenPorts.has(lower)) this.report('warning', 'duplicate-port', file, def.portOffsets[i], `port ${port} is listed twice in .subckt ${def.name}`);
-      seenPorts.add(lower);
-      cell.ports.push(nets.id(port, this.locIn(file, def.portOffsets[i])));
-    });
+    // Nets: the definition's own table serves every variant as is when all elements come from it;
+    // elements spliced in from included files are mapped into a copy by name.
+    const own = def.ownNets ?? def.segments[0]?.nets ?? new NameTable();
+    const ownFile = def.stmt ? file : (def.segments[0]?.file ?? file);
+    const ownLocs = own.locations(this.cursor(ownFile));
+    const foreign = def.segments.some((sg) => sg.nets !== own);
+    const cellNets = foreign ? new CellNets(own, ownLocs) : null;
+    cell.nets = cellNets ? cellNets.names : own.names;
+    cell.netIndex = cellNets ? cellNets.index : own.index;
+    cell.netLocs = cellNets ? cellNets.locs : ownLocs;
+
+    if (def.stmt) {
+      const seenPorts = new Set<number>();
+      def.stmt.portIds.forEach((id, i) => {
+        if (seenPorts.has(id)) this.report('warning', 'duplicate-port', file, def.portOffsets[i], `port ${def.ports[i]} is listed twice in .subckt ${def.name}`);
+        seenPorts.add(id);
+      });
+      cell.ports = def.stmt.portIds.slice();
+    }
     if (def.pinInfo.length) {
       const dirs = new Map<string, PinDirection>();
+      const portNames = new Set(def.ports.map((p) => p.toLowerCase()));
       for (const e of def.pinInfo) {
-        if (!seenPorts.has(e.name.toLowerCase())) this.report('warning', 'pininfo-unknown-pin', file, e.offset, `*.PININFO names ${e.name}, which is not a port of ${def.name}`);
+        if (!portNames.has(e.name.toLowerCase())) this.report('warning', 'pininfo-unknown-pin', file, e.offset, `*.PININFO names ${e.name}, which is not a port of ${def.name}`);
         dirs.set(e.name.toLowerCase(), e.direction);
       }
       cell.portDirections = def.ports.map((p) => dirs.get(p.toLowerCase()));
@@ -689,98 +713,106 @@ class Elaborator {
     const num = (v: Value | undefined, elFile: string): number | undefined => (v === undefined ? undefined : typeof v === 'number' ? v : this.evalValue(v, elFile, lookup));
     const scale = this.scale;
 
-    for (const el of def.elements) {
-      const elFile = el.loc.file;
-      switch (el.kind) {
-        case 'mos': {
-          const kind = this.deviceKind(el.model);
-          if (kind === 'ignore') break;
-          if (kind !== 'nmos' && kind !== 'pmos') {
-            this.modelProblem(el.name, el.model, kind, elFile, el.modelOffset);
+    for (const segment of def.segments) {
+      let net: (id: number) => number = identity;
+      if (segment.nets !== own) {
+        const table = segment.nets;
+        const locs = table.locations(this.cursor(segment.file));
+        const remap = new Int32Array(table.size).fill(-1);
+        net = (id) => (remap[id] >= 0 ? remap[id] : (remap[id] = cellNets!.id(table.names[id], locs[id])));
+      }
+      for (let e = segment.start; e < segment.end; e++) {
+        const el = def.elements[e];
+        const elFile = el.loc.file;
+        switch (el.kind) {
+          case 'mos': {
+            const kind = this.deviceKind(el.model);
+            if (kind === 'ignore') break;
+            if (kind !== 'nmos' && kind !== 'pmos') {
+              this.modelProblem(el.name, el.model, kind, elFile, el.modelOffset);
+              break;
+            }
+            const m = this.mosfet(el, kind === 'nmos' ? 'n' : 'p', net, lookup, scale);
+            if (m) cell.mosfets.push(m);
             break;
           }
-          const m = this.mosfet(el, kind === 'nmos' ? 'n' : 'p', nets, lookup, scale);
-          if (m) cell.mosfets.push(m);
-          break;
-        }
-        case 'instance': {
-          const target = def.targets.get(el);
-          if (target === undefined || target === 'unknown' || target === 'cut') break;
-          if (typeof target === 'object') {
-            if (el.nodes.length !== target.ports.length) {
-              this.reportAt('error', 'pin-count', el.loc, `${el.name} connects ${el.nodes.length} node${el.nodes.length === 1 ? '' : 's'} to ${target.name}, which has ${target.ports.length} port${target.ports.length === 1 ? '' : 's'}`, `${target.name} is defined at ${target.loc.file}:${target.loc.line} with ports: ${target.ports.slice(0, 12).join(' ')}${target.ports.length > 12 ? ' …' : ''}`);
+          case 'instance': {
+            const target = def.targets.get(el);
+            if (target === undefined || target === 'unknown' || target === 'cut') break;
+            if (typeof target === 'object') {
+              if (el.nodes.length !== target.ports.length) {
+                this.reportAt('error', 'pin-count', el.loc, `${el.name} connects ${el.nodes.length} node${el.nodes.length === 1 ? '' : 's'} to ${target.name}, which has ${target.ports.length} port${target.ports.length === 1 ? '' : 's'}`, `${target.name} is defined at ${target.loc.file}:${target.loc.line} with ports: ${target.ports.slice(0, 12).join(' ')}${target.ports.length > 12 ? ' …' : ''}`);
+                break;
+              }
+              const overrides = new Map<string, number>();
+              const evaluated: Record<string, number> = {};
+              const declared = new Set(target.headerParams.map((p) => p.name));
+              for (const p of el.params) {
+                if (p.value === undefined) continue;
+                const v = this.evalValue(p.value, elFile, lookup, !declared.has(p.name));
+                if (v === undefined) continue;
+                evaluated[p.name] = v;
+                if (declared.has(p.name)) overrides.set(p.name, v);
+              }
+              const child = this.variant(target, this.bind(target, overrides), el.loc, queue);
+              if (!child) break;
+              cell.instances.push({ name: el.name, cell: child.key, pins: el.nodes.map(net), params: evaluated, loc: el.loc });
               break;
             }
-            const overrides = new Map<string, number>();
-            const evaluated: Record<string, number> = {};
-            const declared = new Set(target.headerParams.map((p) => p.name));
-            for (const p of el.params) {
-              if (p.value === undefined) continue;
-              const v = this.evalValue(p.value, elFile, lookup, !declared.has(p.name));
-              if (v === undefined) continue;
-              evaluated[p.name] = v;
-              if (declared.has(p.name)) overrides.set(p.name, v);
+            if (target === 'tie') {
+              if (el.nodes.length < 2) {
+                this.reportAt('error', 'pin-count', el.loc, `${el.name}: a short needs the two nodes it joins`);
+                break;
+              }
+              const a = net(el.nodes[0]);
+              const b = net(el.nodes[1]);
+              ties.push([a, b]);
+              cell.others.push({ kind: 'res', name: el.name, a, b, value: 0, model: el.cell, loc: el.loc });
+              break;
             }
-            const child = this.variant(target, this.bind(target, overrides), el.loc, queue);
-            if (!child) break;
-            const pins = el.nodes.map((n, i) => nets.id(n, this.locIn(elFile, el.nodeOffsets[i])));
-            const inst: Instance = { name: el.name, cell: child.key, pins, params: evaluated, loc: el.loc };
-            cell.instances.push(inst);
+            this.mappedDevice(el, target, cell, net, lookup, scale, ties);
             break;
           }
-          if (target === 'tie') {
-            if (el.nodes.length < 2) {
-              this.reportAt('error', 'pin-count', el.loc, `${el.name}: a short needs the two nodes it joins`);
-              break;
+          case 'res':
+          case 'cap': {
+            const value = num(el.value, elFile);
+            const a = net(el.a);
+            const b = net(el.b);
+            if (el.kind === 'res') {
+              const tie = (el.value === undefined && el.model?.toLowerCase() === TIE_DEVICE) || value === 0;
+              if (tie) ties.push([a, b]);
+              if (value === undefined && !tie) {
+                if (el.value === undefined) this.reportAt('warning', 'missing-value', el.loc, `${el.name} has no resistance; left out`, 'give a value (R1 a b 1k); a zero-ohm tie is written with the model name short');
+                break;
+              }
+              cell.others.push({ kind: 'res', name: el.name, a, b, value: value ?? 0, ...(el.model ? { model: el.model } : {}), loc: el.loc });
+            } else {
+              if (value === undefined) {
+                if (el.value === undefined) this.reportAt('warning', 'missing-value', el.loc, `${el.name} has no capacitance; left out`, 'give a value (C1 a b 10f)');
+                break;
+              }
+              cell.others.push({ kind: 'cap', name: el.name, a, b, value, ...(el.model ? { model: el.model } : {}), loc: el.loc });
             }
-            const a = nets.id(el.nodes[0], this.locIn(elFile, el.nodeOffsets[0]));
-            const b = nets.id(el.nodes[1], this.locIn(elFile, el.nodeOffsets[1]));
-            ties.push([a, b]);
-            cell.others.push({ kind: 'res', name: el.name, a, b, value: 0, model: el.cell, loc: el.loc });
             break;
           }
-          this.mappedDevice(el, target, cell, nets, lookup, scale, ties);
-          break;
-        }
-        case 'res':
-        case 'cap': {
-          const value = num(el.value, elFile);
-          const a = nets.id(el.a, el.loc);
-          const b = nets.id(el.b, el.loc);
-          if (el.kind === 'res') {
-            const tie = (el.value === undefined && el.model?.toLowerCase() === TIE_DEVICE) || value === 0;
-            if (tie) ties.push([a, b]);
-            if (value === undefined && !tie) {
-              if (el.value === undefined) this.reportAt('warning', 'missing-value', el.loc, `${el.name} has no resistance; left out`, 'give a value (R1 a b 1k); a zero-ohm tie is written with the model name short');
-              break;
-            }
-            cell.others.push({ kind: 'res', name: el.name, a, b, value: value ?? 0, ...(el.model ? { model: el.model } : {}), loc: el.loc });
-          } else {
-            if (value === undefined) {
-              if (el.value === undefined) this.reportAt('warning', 'missing-value', el.loc, `${el.name} has no capacitance; left out`, 'give a value (C1 a b 10f)');
-              break;
-            }
-            cell.others.push({ kind: 'cap', name: el.name, a, b, value, ...(el.model ? { model: el.model } : {}), loc: el.loc });
+          case 'vsrc':
+          case 'isrc': {
+            const dc = num(el.dc, elFile);
+            cell.others.push({
+              kind: el.kind,
+              name: el.name,
+              pos: net(el.pos),
+              neg: net(el.neg),
+              ...(dc !== undefined ? { dc } : {}),
+              ...(el.waveform ? { waveform: el.waveform } : {}),
+              loc: el.loc,
+            });
+            break;
           }
-          break;
+          case 'diode':
+            cell.others.push({ kind: 'diode', name: el.name, anode: net(el.anode), cathode: net(el.cathode), model: el.model, loc: el.loc });
+            break;
         }
-        case 'vsrc':
-        case 'isrc': {
-          const dc = num(el.dc, elFile);
-          cell.others.push({
-            kind: el.kind,
-            name: el.name,
-            pos: nets.id(el.pos, el.loc),
-            neg: nets.id(el.neg, el.loc),
-            ...(dc !== undefined ? { dc } : {}),
-            ...(el.waveform ? { waveform: el.waveform } : {}),
-            loc: el.loc,
-          });
-          break;
-        }
-        case 'diode':
-          cell.others.push({ kind: 'diode', name: el.name, anode: nets.id(el.anode, el.loc), cathode: nets.id(el.cathode, el.loc), model: el.model, loc: el.loc });
-          break;
       }
     }
     if (ties.length) mergeTies(cell, ties);
@@ -815,7 +847,7 @@ class Elaborator {
     return { w: wv * scale, l: lv * scale };
   }
 
-  private mosfet(el: MosStatement, polarity: MosPolarity, nets: NetTable, lookup: (n: string) => number | undefined, scale: number): Mosfet | null {
+  private mosfet(el: MosStatement, polarity: MosPolarity, net: (id: number) => number, lookup: (n: string) => number | undefined, scale: number): Mosfet | null {
     const file = el.loc.file;
     const size = this.sizes(el.name, el.w, el.l, file, el.loc, lookup, scale);
     if (!size) return null;
@@ -837,10 +869,10 @@ class Elaborator {
       kind: 'mos',
       polarity,
       name: el.name,
-      drain: nets.id(el.drain, el.loc),
-      gate: nets.id(el.gate, el.loc),
-      source: nets.id(el.source, el.loc),
-      bulk: nets.id(el.bulk, el.loc),
+      drain: net(el.drain),
+      gate: net(el.gate),
+      source: net(el.source),
+      bulk: net(el.bulk),
       model: el.model,
       w: size.w,
       l: size.l,
@@ -856,14 +888,14 @@ class Elaborator {
     el: InstanceStatement,
     kind: DeviceKind,
     cell: Cell,
-    nets: NetTable,
+    net: (id: number) => number,
     lookup: (n: string) => number | undefined,
     scale: number,
     ties: [number, number][],
   ): void {
     if (kind === 'ignore') return;
     const file = el.loc.file;
-    const node = (i: number) => nets.id(el.nodes[i], this.locIn(file, el.nodeOffsets[i]));
+    const node = (i: number) => net(el.nodes[i]);
     const param = (...names: string[]) => {
       const p = el.params.find((q) => names.includes(q.name));
       return p;
@@ -937,10 +969,15 @@ class Elaborator {
     }
   }
 
-  private locIn(file: string, offset: number): SourceLoc {
-    const ast = this.asts.get(file)!;
-    const line = lineOf(ast.lineStarts, offset);
-    return { file, line, column: offset - ast.lineStarts[line - 1] + 1 };
+  private readonly cursors = new Map<string, LocationCursor>();
+
+  private cursor(file: string): LocationCursor {
+    let c = this.cursors.get(file);
+    if (!c) {
+      c = new LocationCursor(file, this.asts.get(file)?.lineStarts ?? [0]);
+      this.cursors.set(file, c);
+    }
+    return c;
   }
 
   // ---------- run ----------
@@ -981,7 +1018,8 @@ class Elaborator {
       if (this.top.loc.file === '') this.top.loc = { file: entry, line: 1, column: 1 };
       this.global.included.add(`${entry}#`);
       this.includeStack.push(entry);
-      this.collect(ast.statements, this.top, entry);
+      this.top.ownNets ??= ast.nets;
+      this.collect(ast.statements, this.top, entry, ast.nets);
       this.includeStack.pop();
     }
     this.scale = this.resolveScale();
@@ -1102,23 +1140,29 @@ function collectIncludeTargets(statements: readonly Statement[], file: string, o
   }
 }
 
-/** Net names of one cell to dense ids, case-insensitively, remembering where each was first mentioned. */
-class NetTable {
-  private readonly exact = new Map<string, number>();
-  constructor(private readonly cell: Cell) {}
+const identity = (id: number) => id;
+
+/** A cell's nets when its elements come from several bodies: a copy of its own table, extended by name. */
+class CellNets {
+  readonly names: string[];
+  readonly index: Map<string, number>;
+  readonly locs: SourceLoc[];
+
+  constructor(own: NameTable, ownLocs: SourceLoc[]) {
+    this.names = own.names.slice();
+    this.index = new Map(own.index);
+    this.locs = ownLocs.slice();
+  }
 
   id(name: string, loc: SourceLoc): number {
-    const hit = this.exact.get(name);
-    if (hit !== undefined) return hit;
     const lower = name.toLowerCase();
-    let id = this.cell.netIndex.get(lower);
+    let id = this.index.get(lower);
     if (id === undefined) {
-      id = this.cell.nets.length;
-      this.cell.nets.push(name);
-      this.cell.netIndex.set(lower, id);
-      this.cell.netLocs.push(loc);
+      id = this.names.length;
+      this.names.push(name);
+      this.index.set(lower, id);
+      this.locs.push(loc);
     }
-    if (lower !== name) this.exact.set(name, id);
     return id;
   }
 }
@@ -1149,7 +1193,10 @@ function mergeTies(cell: Cell, ties: [number, number][]): void {
     }
   }
   const map = (x: number) => newId[find(x)];
-  for (const [name, id] of cell.netIndex) cell.netIndex.set(name, map(id));
+  // New containers: variants of one definition share their unmerged tables.
+  const index = new Map<string, number>();
+  for (const [name, id] of cell.netIndex) index.set(name, map(id));
+  cell.netIndex = index;
   cell.ports = cell.ports.map(map);
   for (const m of cell.mosfets) {
     m.drain = map(m.drain);

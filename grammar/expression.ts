@@ -1,4 +1,5 @@
-// Parameter expressions, as written inside braces or quotes (`{wn*2}`, `'l+0.01u'`):
+// Parameter expressions, as written inside braces or quotes (`{wn*2}`, `'l+0.01u'`),
+// with ngspice's precedence and associativity:
 // + − * / ^ (also **), parentheses, unary signs, numbers with SPICE scale factors,
 // parameter names and the usual functions. Parsed once with a small Chevrotain
 // grammar into a tree whose chains are n-ary (so a ten-thousand-term sum is one
@@ -13,7 +14,7 @@ export type ExprNode =
   | { t: 'neg'; x: ExprNode }
   | { t: 'sum'; terms: ExprNode[]; minus: boolean[] }
   | { t: 'prod'; factors: ExprNode[]; divide: boolean[] }
-  /** Right-associative chain: base ^ (e1 ^ (e2 …)). */
+  /** Chain evaluated from the left, as ngspice does: 2^3^2 is (2^3)^2 = 64. */
   | { t: 'pow'; chain: ExprNode[] }
   | { t: 'call'; fn: string; args: ExprNode[]; at: number };
 
@@ -81,7 +82,10 @@ class ExpressionParser extends EmbeddedActionsParser {
     return factors.length === 1 ? first : { t: 'prod', factors, divide };
   });
 
-  /** Unary signs bind looser than ^, as in mathematics: -2^2 is -4. */
+  /**
+   * Unary signs bind looser than ^, as in mathematics and as ngspice reads a leading sign: -2^2 is -4.
+   * (ngspice reads a sign after a binary operator differently, `10+-2^2` being 14; Keepwell does not copy that.)
+   */
   signed = this.RULE('signed', (): ExprNode => {
     let negative = false;
     this.MANY(() => {
@@ -256,24 +260,24 @@ function compileUncached(text: string): CompileResult {
   return { ok: true, expr: { node, refs: [...refs] } };
 }
 
-const FUNCTIONS: Record<string, { min: number; max: number; f: (...xs: number[]) => number }> = {
-  sqrt: { min: 1, max: 1, f: Math.sqrt },
-  exp: { min: 1, max: 1, f: Math.exp },
-  log: { min: 1, max: 1, f: Math.log },
-  ln: { min: 1, max: 1, f: Math.log },
-  log10: { min: 1, max: 1, f: Math.log10 },
-  abs: { min: 1, max: 1, f: Math.abs },
-  min: { min: 1, max: Infinity, f: Math.min },
-  max: { min: 1, max: Infinity, f: Math.max },
-  pow: { min: 2, max: 2, f: Math.pow },
-  pwr: { min: 2, max: 2, f: Math.pow },
-  floor: { min: 1, max: 1, f: Math.floor },
-  ceil: { min: 1, max: 1, f: Math.ceil },
-  int: { min: 1, max: 1, f: Math.trunc },
-  sin: { min: 1, max: 1, f: Math.sin },
-  cos: { min: 1, max: 1, f: Math.cos },
-  tan: { min: 1, max: 1, f: Math.tan },
-  atan: { min: 1, max: 1, f: Math.atan },
+const FUNCTIONS: Record<string, { arity: number; f: (...xs: number[]) => number }> = {
+  sqrt: { arity: 1, f: Math.sqrt },
+  exp: { arity: 1, f: Math.exp },
+  log: { arity: 1, f: Math.log },
+  ln: { arity: 1, f: Math.log },
+  log10: { arity: 1, f: Math.log10 },
+  abs: { arity: 1, f: Math.abs },
+  min: { arity: 2, f: Math.min },
+  max: { arity: 2, f: Math.max },
+  pow: { arity: 2, f: Math.pow },
+  pwr: { arity: 2, f: Math.pow },
+  floor: { arity: 1, f: Math.floor },
+  ceil: { arity: 1, f: Math.ceil },
+  int: { arity: 1, f: Math.trunc },
+  sin: { arity: 1, f: Math.sin },
+  cos: { arity: 1, f: Math.cos },
+  tan: { arity: 1, f: Math.tan },
+  atan: { arity: 1, f: Math.atan },
 };
 
 export const EXPRESSION_FUNCTIONS = Object.keys(FUNCTIONS);
@@ -329,15 +333,15 @@ function evalNode(node: ExprNode, lookup: (name: string, at: number) => number |
       return acc;
     }
     case 'pow': {
-      let acc = evalNode(node.chain[node.chain.length - 1], lookup);
-      for (let i = node.chain.length - 2; i >= 0; i--) acc = Math.pow(evalNode(node.chain[i], lookup), acc);
+      let acc = evalNode(node.chain[0], lookup);
+      for (let i = 1; i < node.chain.length; i++) acc = Math.pow(acc, evalNode(node.chain[i], lookup));
       return acc;
     }
     case 'call': {
       const fn = FUNCTIONS[node.fn];
       if (!fn) throw new EvalError(`unknown function "${node.fn}"`, node.at);
-      if (node.args.length < fn.min || node.args.length > fn.max) {
-        throw new EvalError(`${node.fn}() takes ${fn.min === fn.max ? fn.min : `at least ${fn.min}`} argument${fn.min === 1 && fn.max === 1 ? '' : 's'}`, node.at);
+      if (node.args.length !== fn.arity) {
+        throw new EvalError(`${node.fn}() takes ${fn.arity} argument${fn.arity === 1 ? '' : 's'}`, node.at);
       }
       return fn.f(...node.args.map((a) => evalNode(a, lookup)));
     }

@@ -19,5 +19,30 @@ export { normalizePath, resolveInclude, includeReferences } from './paths';
 
 /** Read a set of files (relative path with forward slashes → text) into a design. */
 export function readDesign(files: ReadonlyMap<string, string> | Record<string, string>, options: ReadOptions): Design {
-  return elaborate(files, options);
+  try {
+    return elaborate(files, options);
+  } catch (e) {
+    // A defect of the reader must still reach the user as a diagnostic, never as a stack trace.
+    const first = files instanceof Map ? [...files.keys()][0] : Object.keys(files)[0];
+    return {
+      cells: new Map(),
+      roots: [],
+      globals: new Set(),
+      models: new Map(),
+      sourcedRails: new Map(),
+      files: [],
+      scale: options.scale ?? options.defaultScale,
+      diagnostics: [
+        {
+          severity: 'error',
+          code: 'internal-error',
+          message: `the netlist reader failed: ${e instanceof Error ? e.message : String(e)}`,
+          hint: 'please report this with the netlist that caused it',
+          file: first ?? '',
+          line: 1,
+          column: 1,
+        },
+      ],
+    };
+  }
 }

@@ -38,6 +38,7 @@ import {
   type FieldsPayload,
 } from './lexer';
 import { looksNumeric, NumberCache } from './numbers';
+import { NameTable } from './names';
 import { LocationCursor, lineStarts } from './source';
 
 const enum Kind {
@@ -145,6 +146,7 @@ const EMPTY_OFFSETS: number[] = [];
 /** Builds one file's statements from decoded lines. */
 class FileBuilder {
   readonly statements: Statement[] = [];
+  readonly topNets = new NameTable();
   readonly diagnostics: Diagnostic[] = [];
   private readonly stack: (SubcktStatement | LibSectionStatement)[] = [];
   private readonly cursor: LocationCursor;
@@ -152,6 +154,8 @@ class FileBuilder {
   /** Offset of the piece being parsed within the file. */
   base = 0;
   private ended = false;
+  /** Values that could not be read so far; an element whose count changed is left out. */
+  private valueErrors = 0;
   private control: SourceLoc | null = null;
   /** Index of the last statement-producing line's first item (for `.ends` end offsets). */
   private lineEnd = 0;
@@ -261,13 +265,19 @@ class FileBuilder {
 
   private readonly names = new Map<string, string>();
 
-  /** One string per distinct name: a million lines mention `vss` a million times. */
+  /** One string per distinct model or cell name: a million lines name `nch` a million times. */
   intern(name: string): string {
     const known = this.names.get(name);
     if (known !== undefined) return known;
     // Bounded: frequent names (rails, clocks, models) arrive early; a huge table of one-off names only costs time.
     if (this.names.size < 20_000) this.names.set(name, name);
     return name;
+  }
+
+  /** The node table of the body being read. */
+  private nets(): NameTable {
+    const top = this.stack[this.stack.length - 1];
+    return top ? top.nets : this.topNets;
   }
 
   private add(statement: Statement): void {
@@ -345,23 +355,9 @@ class FileBuilder {
       return;
     }
     const words = line.words;
-    // Every field initialised here, so that all statements share one object shape.
-    const stmt: MosStatement = {
-      kind: 'mos',
-      name,
-      drain: this.intern(words[1]),
-      gate: this.intern(words[2]),
-      source: this.intern(words[3]),
-      bulk: this.intern(words[4]),
-      model: this.intern(words[5]),
-      modelOffset: line.at(5),
-      w: undefined,
-      l: undefined,
-      m: undefined,
-      nf: undefined,
-      extra: undefined,
-      loc: this.loc(line.at(0)),
-    };
+    const failures = this.valueErrors;
+    const sizes: { w?: Value; l?: Value; m?: Value; nf?: Value } = {};
+    let extra: Param[] | undefined;
     // Positional flags after the model (`off`) are simulator hints: skipped by paramAt.
     const params: Param[] = [];
     for (let i = end; i < line.length; ) {
@@ -370,9 +366,9 @@ class FileBuilder {
       if (eq === 1 || eq === 2) {
         // Fast path for the sizes every line carries: w=…, l=…, m=…, nf=…
         const c = w.charCodeAt(0) | 0x20;
-        const key = eq === 1 ? (c === 119 ? 'w' : c === 108 ? 'l' : c === 109 ? 'm' : '') : c === 110 && (w.charCodeAt(1) | 0x20) === 102 ? 'nf' : '';
+        const key = eq === 1 ? (c === 119 ? 'w' : c === 108 ? 'l' : c === 109 ? 'm' : null) : c === 110 && (w.charCodeAt(1) | 0x20) === 102 ? 'nf' : null;
         if (key && eq < w.length - 1) {
-          stmt[key] = this.wordValue(w.slice(eq + 1), line.at(i) + eq + 1);
+          sizes[key] = this.wordValue(w.slice(eq + 1), line.at(i) + eq + 1);
           i++;
           continue;
         }
@@ -380,9 +376,29 @@ class FileBuilder {
       i = this.paramAt(line, i, params, false);
     }
     for (const p of params) {
-      if (p.name === 'w' || p.name === 'l' || p.name === 'm' || p.name === 'nf') stmt[p.name] = p.value;
-      else (stmt.extra ??= []).push(p);
+      if (p.name === 'w' || p.name === 'l' || p.name === 'm' || p.name === 'nf') sizes[p.name] = p.value;
+      else (extra ??= []).push(p);
     }
+    // A device with an unreadable value is left out (the value's diagnostic says why).
+    if (this.valueErrors !== failures) return;
+    const nets = this.nets();
+    // Every field initialised here, so that all statements share one object shape.
+    const stmt: MosStatement = {
+      kind: 'mos',
+      name,
+      drain: nets.id(words[1], line.at(1)),
+      gate: nets.id(words[2], line.at(2)),
+      source: nets.id(words[3], line.at(3)),
+      bulk: nets.id(words[4], line.at(4)),
+      model: this.intern(words[5]),
+      modelOffset: line.at(5),
+      w: sizes.w,
+      l: sizes.l,
+      m: sizes.m,
+      nf: sizes.nf,
+      extra,
+      loc: this.loc(line.at(0)),
+    };
     this.add(stmt);
   }
 
@@ -426,24 +442,25 @@ class FileBuilder {
       this.error('missing-subckt-name', cellOffset, `${name}: no subcircuit name`, 'an X element is: X<name> node… subckt [name=value…]');
       return;
     }
-    const nodes: string[] = [];
-    const nodeOffsets: number[] = [];
     for (let i = 1; i < nodeEnd; i++) {
       if (!line.isWord(i)) {
         this.error('syntax', line.at(i), `${name}: unexpected ${line.describe(i)} among the nodes`);
         return;
       }
-      nodes.push(line.words[i]);
-      nodeOffsets.push(line.at(i));
     }
+    const failures = this.valueErrors;
+    const params = this.params(line, end);
+    if (this.valueErrors !== failures) return;
+    const nets = this.nets();
+    const nodes: number[] = new Array(Math.max(0, nodeEnd - 1));
+    for (let i = 1; i < nodeEnd; i++) nodes[i - 1] = nets.id(line.words[i], line.at(i));
     const stmt: InstanceStatement = {
       kind: 'instance',
       name,
       nodes,
-      nodeOffsets,
-      cell,
+      cell: this.intern(cell),
       cellOffset,
-      params: this.params(line, end),
+      params,
       loc: this.loc(line.at(0)),
     };
     this.add(stmt);
@@ -456,6 +473,7 @@ class FileBuilder {
       this.error('missing-nodes', line.at(0), `${name}: a ${what} needs two nodes`, `a ${what} is: ${kind === 'res' ? 'R' : 'C'}<name> node node value [model]`);
       return;
     }
+    const failures = this.valueErrors;
     const end = this.positionalEnd(line, 3);
     let value: Value | undefined;
     let valueOffset = line.at(0);
@@ -480,7 +498,11 @@ class FileBuilder {
         valueOffset = p.offset;
       }
     }
-    this.add({ kind, name, a: line.words[1], b: line.words[2], value, valueOffset, model, loc: this.loc(line.at(0)) });
+    if (this.valueErrors !== failures) return;
+    const nets = this.nets();
+    const a = nets.id(line.words[1], line.at(1));
+    const b = nets.id(line.words[2], line.at(2));
+    this.add({ kind, name, a, b, value, valueOffset, model, loc: this.loc(line.at(0)) });
   }
 
   private source(line: Line, kind: 'vsrc' | 'isrc'): void {
@@ -489,6 +511,7 @@ class FileBuilder {
       this.error('missing-nodes', line.at(0), `${name}: a source needs two nodes`, `a source is: ${kind === 'vsrc' ? 'V' : 'I'}<name> node+ node- [DC] value [AC …] [pulse(…)]`);
       return;
     }
+    const failures = this.valueErrors;
     let dc: Value | undefined;
     let waveform: string | undefined;
     let i = 3;
@@ -532,7 +555,11 @@ class FileBuilder {
       i++;
     }
     this.checkParentheses(line);
-    this.add({ kind, name, pos: line.words[1], neg: line.words[2], dc, ...(waveform ? { waveform } : {}), loc: this.loc(line.at(0)) });
+    if (this.valueErrors !== failures) return;
+    const nets = this.nets();
+    const pos = nets.id(line.words[1], line.at(1));
+    const neg = nets.id(line.words[2], line.at(2));
+    this.add({ kind, name, pos, neg, dc, ...(waveform ? { waveform } : {}), loc: this.loc(line.at(0)) });
   }
 
   private diode(line: Line): void {
@@ -541,7 +568,10 @@ class FileBuilder {
       this.error(line.length >= 3 ? 'missing-model' : 'missing-nodes', line.at(0), `${name}: a diode needs anode, cathode and a model name`, 'a diode is: D<name> anode cathode model [area]');
       return;
     }
-    this.add({ kind: 'diode', name, anode: line.words[1], cathode: line.words[2], model: line.words[3], loc: this.loc(line.at(0)) });
+    const nets = this.nets();
+    const anode = nets.id(line.words[1], line.at(1));
+    const cathode = nets.id(line.words[2], line.at(2));
+    this.add({ kind: 'diode', name, anode, cathode, model: this.intern(line.words[3]), loc: this.loc(line.at(0)) });
   }
 
   // ---- dot commands ----
@@ -609,7 +639,7 @@ class FileBuilder {
     if (line.length < 2 || !line.isWord(1) || line.words[1].indexOf('=') >= 0) {
       this.error('missing-name', line.at(0), `${line.words[0]} without a subcircuit name`, 'write .subckt NAME port… [params: name=value…]');
       // Still open a block so that the matching .ends does not read as stray.
-      this.stack.push({ kind: 'subckt', name: '', nameOffset: line.at(0), ports: [], portOffsets: [], params: [], body: [], loc: this.loc(line.at(0)), start: line.at(0), end: line.at(0), closed: false });
+      this.stack.push({ kind: 'subckt', name: '', nameOffset: line.at(0), ports: [], portOffsets: [], portIds: [], params: [], body: [], nets: new NameTable(), loc: this.loc(line.at(0)), start: line.at(0), end: line.at(0), closed: false });
       return;
     }
     const end = this.positionalEnd(line, 2);
@@ -623,14 +653,17 @@ class FileBuilder {
       ports.push(line.words[i]);
       portOffsets.push(line.at(i));
     }
+    const nets = new NameTable();
     const stmt: SubcktStatement = {
       kind: 'subckt',
       name: line.words[1],
       nameOffset: line.at(1),
       ports,
       portOffsets,
+      portIds: ports.map((p, i) => nets.id(p, portOffsets[i])),
       params: this.params(line, end),
       body: [],
+      nets,
       loc: this.loc(line.at(0)),
       start: line.at(0),
       end: line.at(0),
@@ -666,7 +699,7 @@ class FileBuilder {
     }
     if (args.length === 1 && line.kind(args[0]) === Kind.Word) {
       // `.lib NAME` opens a section definition.
-      const section: LibSectionStatement = { kind: 'libsection', name: line.words[args[0]].toLowerCase(), body: [], loc: this.loc(line.at(0)), closed: false };
+      const section: LibSectionStatement = { kind: 'libsection', name: line.words[args[0]].toLowerCase(), body: [], nets: new NameTable(), loc: this.loc(line.at(0)), closed: false };
       this.add(section);
       this.stack.push(section);
       return;
@@ -731,6 +764,7 @@ class FileBuilder {
   // ---- values and parameters ----
 
   private itemProblem(line: Line, i: number): void {
+    this.valueErrors++;
     const k = line.kind(i);
     if (k === Kind.Unclosed) {
       const open = line.words[i][0];
@@ -773,11 +807,15 @@ class FileBuilder {
     if (looksNumeric(word)) {
       const r = this.numbers.parse(word);
       if (r.ok) return r.value;
+      this.valueErrors++;
       if (r.reason === 'non-finite') this.error('non-finite-number', offset, `number "${word}" is not finite`, 'use a value within double-precision range');
       else {
         // `2*w` without braces: an expression after all.
         const e = compileExpression(word);
-        if (e.ok && /[*/^+\-()]/.test(word.slice(1))) return { kind: 'expr', text: word, compiled: e.expr, offset, bare: false };
+        if (e.ok && /[*/^+\-()]/.test(word.slice(1))) {
+          this.valueErrors--;
+          return { kind: 'expr', text: word, compiled: e.expr, offset, bare: false };
+        }
         this.error('malformed-number', offset, `malformed number "${word.slice(0, 40)}"`, 'numbers are digits with an optional exponent and scale factor: 1.5u, 10fF, 2e-6, 1MEG');
       }
       return undefined;
@@ -791,6 +829,7 @@ class FileBuilder {
   private expression(text: string, offset: number, bare: boolean): Expr | undefined {
     const e = compileExpression(text);
     if (!e.ok) {
+      this.valueErrors++;
       this.error('bad-expression', offset + e.at, `${e.message} in "${text.length > 40 ? text.slice(0, 40) + '…' : text}"`, 'expressions use numbers, parameter names, + - * / ^, parentheses and sqrt exp log min max abs');
       return undefined;
     }
@@ -1063,6 +1102,7 @@ export function parseNetlist(path: string, text: string, options: ParseOptions =
     path,
     ...(title !== undefined ? { title } : {}),
     statements: builder.statements,
+    nets: builder.topNets,
     lineStarts: builder.starts,
     lineCount: builder.starts.length,
     diagnostics: builder.diagnostics,
