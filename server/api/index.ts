@@ -16,6 +16,8 @@ import { authRoutes } from './routes/auth';
 import { blockRoutes } from './routes/blocks';
 import { deckRoutes, ruleCatalogueRoutes } from './routes/decks';
 import { healthRoutes } from './routes/health';
+import { runRoutes } from './routes/runs';
+import { uploadRoutes } from './routes/uploads';
 
 export function apiRouter(ctx: AppContext): Router {
   const api = Router();
@@ -26,5 +28,7 @@ export function apiRouter(ctx: AppContext): Router {
   api.use('/audit', auditRoutes());
   api.use('/decks', deckRoutes(ctx));
   api.use('/rules', ruleCatalogueRoutes());
+  api.use('/uploads', uploadRoutes(ctx));
+  api.use('/runs', runRoutes(ctx));
   return api;
 }

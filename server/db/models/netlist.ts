@@ -20,6 +20,8 @@ export class Netlist extends Model<InferAttributes<Netlist>, InferCreationAttrib
   declare uploadedBy: ForeignKey<User['id']> | null;
   declare fileCount: CreationOptional<number>;
   declare totalBytes: CreationOptional<number>;
+  /** SHA-256 over the sorted (file hash, path) list; an identical re-upload to the block finds this row. */
+  declare contentHash: CreationOptional<string | null>;
   declare createdAt: CreationOptional<Date>;
 
   declare files?: NonAttribute<NetlistFile[]>;
@@ -30,6 +32,7 @@ export class Netlist extends Model<InferAttributes<Netlist>, InferCreationAttrib
         id: { type: DataTypes.UUID, primaryKey: true, defaultValue: DataTypes.UUIDV4 },
         fileCount: { type: DataTypes.INTEGER, allowNull: false, defaultValue: 0 },
         totalBytes: { type: DataTypes.BIGINT, allowNull: false, defaultValue: 0 },
+        contentHash: { type: DataTypes.TEXT, allowNull: true },
         createdAt: DataTypes.DATE,
       },
       { sequelize, tableName: 'netlists', updatedAt: false },

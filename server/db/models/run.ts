@@ -9,6 +9,7 @@ import {
 } from 'sequelize';
 import type { Severity } from '../../../shared/deck';
 import type { CheckSummary, FindingPlot, Quantity } from '../../../shared/findings';
+import type { RunBreakdown, RunDiagnostic, RunProgress } from '../../../shared/api/runs';
 import type { Block } from './block';
 import type { Netlist } from './netlist';
 import type { RuleDeckVersion } from './rule-deck';
@@ -26,11 +27,20 @@ export class Run extends Model<InferAttributes<Run>, InferCreationAttributes<Run
   declare deckVersionId: ForeignKey<RuleDeckVersion['id']>;
   declare submittedBy: ForeignKey<User['id']> | null;
   declare state: CreationOptional<RunState>;
-  declare progress: Record<string, unknown> | null;
+  declare progress: RunProgress | null;
   declare attempt: CreationOptional<number>;
   declare error: string | null;
   declare summary: CheckSummary | null;
   declare note: CreationOptional<string>;
+  /** Cell the check starts from; null: every cell nobody instantiates. */
+  declare topCell: CreationOptional<string | null>;
+  /** Child jobs of a split run; null while it is one job. */
+  declare parts: CreationOptional<number | null>;
+  /** What the netlist reader reported (warnings of a succeeded run, errors of a failed one). */
+  declare diagnostics: CreationOptional<RunDiagnostic[]>;
+  /** Findings per rule and per cell, written with the findings. */
+  declare breakdown: CreationOptional<RunBreakdown | null>;
+  declare cancelledBy: CreationOptional<ForeignKey<User['id']> | null>;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
   declare startedAt: Date | null;
@@ -46,6 +56,10 @@ export class Run extends Model<InferAttributes<Run>, InferCreationAttributes<Run
         error: { type: DataTypes.TEXT, allowNull: true },
         summary: { type: DataTypes.JSONB, allowNull: true },
         note: { type: DataTypes.TEXT, allowNull: false, defaultValue: '' },
+        topCell: { type: DataTypes.TEXT, allowNull: true },
+        parts: { type: DataTypes.INTEGER, allowNull: true },
+        diagnostics: { type: DataTypes.JSONB, allowNull: false, defaultValue: [] },
+        breakdown: { type: DataTypes.JSONB, allowNull: true },
         createdAt: DataTypes.DATE,
         updatedAt: DataTypes.DATE,
         startedAt: { type: DataTypes.DATE, allowNull: true },

@@ -1,0 +1,163 @@
+// A run's findings, paged on the server: filters (rule, severity, cell, status, text),
+// sort orders that each have their own index (migration 20261202-21), and the
+// comparison of two runs of a block by fingerprint.
+
+import { QueryTypes } from 'sequelize';
+import type { FindingsQuery, StoredFinding } from '../../shared/api/runs';
+import type { Quantity, FindingPlot } from '../../shared/findings';
+import type { Severity } from '../../shared/deck';
+import type { AppContext } from '../context';
+import { conflict, HttpError, notFound } from '../errors';
+
+type Ctx = Pick<AppContext, 'sequelize'>;
+
+interface FindingRowData {
+  id: number;
+  rule_id: string;
+  severity: Severity;
+  message: string;
+  file: string;
+  line: number;
+  column: number;
+  cell: string;
+  nets: string[];
+  devices: string[];
+  instances: number;
+  measured: Quantity | null;
+  limit: Quantity | null;
+  fingerprint: string;
+  corner: string | null;
+  plot: FindingPlot | null;
+  waived: boolean;
+}
+
+const FINDING_COLUMNS = `f.id, f.rule_id, f.severity, f.message, f.file, f.line, f."column", f.cell, f.nets, f.devices, f.instances,
+  f.measured, f."limit", f.fingerprint, f.corner, f.plot`;
+
+/**
+ * An approved, unexpired waiver of the team covers a finding when it names the
+ * finding's rule and fingerprint, or the rule and cell without a fingerprint, or the
+ * whole rule; a waiver tied to a block covers only that block's runs.
+ */
+const WAIVED = `exists (
+  select 1 from waivers w
+  where w.team_id = :teamId and w.state = 'approved' and (w.expires_at is null or w.expires_at > now())
+    and (w.block_id is null or w.block_id = :blockId) and w.rule_id = f.rule_id
+    and (w.fingerprint = f.fingerprint or (w.fingerprint is null and (w.cell is null or w.cell = f.cell))))`;
+
+function findingView(r: FindingRowData): StoredFinding {
+  return {
+    id: r.id,
+    ruleId: r.rule_id,
+    severity: r.severity,
+    message: r.message,
+    file: r.file,
+    line: r.line,
+    column: r.column,
+    cell: r.cell,
+    nets: r.nets,
+    devices: r.devices,
+    instances: r.instances,
+    measured: r.measured,
+    limit: r.limit,
+    fingerprint: r.fingerprint,
+    corner: r.corner,
+    plot: r.plot,
+    status: r.waived ? 'waived' : 'open',
+  };
+}
+
+const ORDER: Record<FindingsQuery['sort'], string[]> = {
+  severity: ['f.severity_rank'],
+  rule: ['f.rule_id'],
+  cell: ['f.cell'],
+  location: ['f.file', 'f.line', 'f."column"'],
+  instances: ['f.instances'],
+};
+
+async function runOfTeam(ctx: Ctx, teamId: string, runId: string): Promise<{ id: string; block_id: string; state: string }> {
+  const rows = await ctx.sequelize.query<{ id: string; block_id: string; state: string }>('select id, block_id, state from runs where id = :runId and team_id = :teamId', {
+    replacements: { runId, teamId },
+    type: QueryTypes.SELECT,
+  });
+  if (!rows[0]) throw notFound('Run');
+  return rows[0];
+}
+
+const likePattern = (q: string) => `%${q.toLowerCase().replace(/[\\%_]/g, (c) => `\\${c}`)}%`;
+
+export async function listFindings(ctx: Ctx, teamId: string, runId: string, query: FindingsQuery) {
+  const run = await runOfTeam(ctx, teamId, runId);
+  const where = ['f.run_id = :runId'];
+  const replacements: Record<string, unknown> = { runId, teamId, blockId: run.block_id, limit: query.pageSize, offset: (query.page - 1) * query.pageSize };
+  if (query.rule?.length) {
+    where.push('f.rule_id in (:rules)');
+    replacements.rules = query.rule;
+  }
+  if (query.severity?.length) {
+    where.push('f.severity in (:severities)');
+    replacements.severities = query.severity;
+  }
+  if (query.cell?.length) {
+    where.push('f.cell in (:cells)');
+    replacements.cells = query.cell;
+  }
+  if (query.q) {
+    where.push(`f.search_text like :pattern`);
+    replacements.pattern = likePattern(query.q);
+  }
+  if (query.status) where.push(query.status === 'waived' ? WAIVED : `not ${WAIVED}`);
+  const clause = where.join(' and ');
+  const dir = query.order === 'desc' ? 'desc' : 'asc';
+  const order = [...ORDER[query.sort], 'f.id'].map((c) => `${c} ${dir}`).join(', ');
+
+  const [rows, [{ total }]] = await Promise.all([
+    ctx.sequelize.query<FindingRowData>(
+      `select ${FINDING_COLUMNS}, ${WAIVED} as waived from findings f where ${clause} order by ${order} limit :limit offset :offset`,
+      { replacements, type: QueryTypes.SELECT },
+    ),
+    ctx.sequelize.query<{ total: number }>(`select cast(count(*) as integer) as total from findings f where ${clause}`, { replacements, type: QueryTypes.SELECT }),
+  ]);
+  return { items: rows.map(findingView), total, page: query.page, pageSize: query.pageSize };
+}
+
+const IN_BASE = 'exists (select 1 from findings b where b.run_id = :baseId and b.fingerprint = f.fingerprint)';
+const IN_HEAD = 'exists (select 1 from findings b where b.run_id = :headId and b.fingerprint = f.fingerprint)';
+
+/** Findings new in `headId`, fixed since `baseId`, or persisting in both, matched by fingerprint. */
+export async function compareRuns(
+  ctx: Ctx,
+  teamId: string,
+  headId: string,
+  baseId: string,
+  query: { kind: 'new' | 'fixed' | 'persisting'; page: number; pageSize: number },
+) {
+  const [head, base] = await Promise.all([runOfTeam(ctx, teamId, headId), runOfTeam(ctx, teamId, baseId)]);
+  if (head.block_id !== base.block_id) throw new HttpError(400, 'validation', 'Only two runs of the same block can be compared.', [{ path: 'params.baseId', message: 'another block' }]);
+  for (const r of [head, base]) if (r.state !== 'succeeded') throw conflict(`Run ${r.id} has not succeeded (it is ${r.state}); only finished checks can be compared.`);
+
+  const replacements: Record<string, unknown> = { headId, baseId, teamId, blockId: head.block_id, limit: query.pageSize, offset: (query.page - 1) * query.pageSize };
+  const [counts] = await ctx.sequelize.query<{ new: number; fixed: number; persisting: number }>(
+    `select
+       (select cast(count(*) as integer) from findings f where f.run_id = :headId and not ${IN_BASE}) as new,
+       (select cast(count(*) as integer) from findings f where f.run_id = :baseId and not ${IN_HEAD}) as fixed,
+       (select cast(count(*) as integer) from findings f where f.run_id = :headId and ${IN_BASE}) as persisting`,
+    { replacements, type: QueryTypes.SELECT },
+  );
+  const selection =
+    query.kind === 'new' ? `f.run_id = :headId and not ${IN_BASE}` : query.kind === 'fixed' ? `f.run_id = :baseId and not ${IN_HEAD}` : `f.run_id = :headId and ${IN_BASE}`;
+  const rows = await ctx.sequelize.query<FindingRowData>(
+    `select ${FINDING_COLUMNS}, ${WAIVED} as waived from findings f where ${selection} order by f.severity_rank, f.id limit :limit offset :offset`,
+    { replacements, type: QueryTypes.SELECT },
+  );
+  return {
+    head: headId,
+    base: baseId,
+    kind: query.kind,
+    counts,
+    items: rows.map(findingView),
+    total: counts[query.kind],
+    page: query.page,
+    pageSize: query.pageSize,
+  };
+}
