@@ -190,7 +190,14 @@ export function classifyStage(
         else if (logic.inputGated(x)) otherLogic = true;
       }
       const byName = isClock(clock);
-      if ((footer.length || byName) && otherLogic) {
+      // Beside the precharge device only keepers, gated from outside the evaluation network; a device of
+      // the same side gated by an evaluation input is the complementary half of a static or clocked gate.
+      let keepersOnly = true;
+      for (const x of side === 0 ? up : down) {
+        if (logic.gate[x] === clock || !logic.inputGated(x)) continue;
+        for (const y of evalElements) if (logic.gate[y] === logic.gate[x]) keepersOnly = false;
+      }
+      if ((footer.length || byName) && otherLogic && keepersOnly) {
         const precharge: number[] = [];
         for (const x of direct) if (logic.gate[x] === clock) precharge.push(x);
         stage.kind = 'dynamic';

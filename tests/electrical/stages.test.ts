@@ -114,6 +114,21 @@ describe('stage extraction', () => {
     expect(t.driving('z').kind).toBe('inverter');
   });
 
+  it('a clocked latch node with an asynchronous set is clocked, not dynamic, though its set device sits where a precharge would', () => {
+    // Static-logic fact: each data input gates a device in both networks (the complementary halves), which no
+    // precharged node has; sky130-style set flops build their latch nodes this way.
+    const t = stagesOf(
+      new CellBuilder('setlatch', ['d', 'ck', 'ckb', 'setb', 'q', 'vdd', 'vss'])
+        .pmos('MPS', 'q', 'setb', 'vdd', 'vdd', s)
+        .pmos('MPD', 'p1', 'd', 'vdd', 'vdd', s)
+        .pmos('MPC', 'q', 'ckb', 'p1', 'vdd', s)
+        .nmos('MNC', 'q', 'ck', 'n1', 'vss', s)
+        .nmos('MND', 'n1', 'd', 'n2', 'vss', s)
+        .nmos('MNS', 'n2', 'setb', 'vss', 'vss', s),
+    );
+    expect(t.driving('q').kind).toBe('clocked');
+  });
+
   it('a footless stage is dynamic only through the clock hint', () => {
     const build = () =>
       new CellBuilder('fl', ['a', 'b', 'ck', 'x', 'vdd', 'vss'])
