@@ -344,7 +344,10 @@ class StageAnalysisView implements StageAnalysis {
 }
 
 export function analyseStage(env: StageEnvironment, stage: Stage): StageAnalysis {
-  if (!STATIC_KINDS.has(stage.kind)) return new StageAnalysisView(stage, null, `${stage.kind} stage: no static transfer curve`);
+  if (!STATIC_KINDS.has(stage.kind)) {
+    const why = stage.notes.length ? ` (${stage.notes.join('; ')})` : '';
+    return new StageAnalysisView(stage, null, `${stage.kind} stage: no static transfer curve${why}`);
+  }
   if (!stage.pullUp || !stage.pullDown) return new StageAnalysisView(stage, null, 'networks are not series/parallel');
   const memo = memoOf(env.design);
   let byDeck = memo.stages.get(env.deck);

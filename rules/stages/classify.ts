@@ -20,6 +20,7 @@ export class StageLogic {
   private readonly state: Uint8Array;
   private readonly bit: Int32Array;
   private readonly nChannel: Uint8Array;
+  private readonly tiedToRail: Uint8Array;
   /** Gate net of each element (after zero-ohm ties), −1 for resistors. */
   readonly gate: Int32Array;
   /** 'n', 'p' or 'r' per element. */
@@ -30,6 +31,7 @@ export class StageLogic {
     this.state = new Uint8Array(k);
     this.bit = new Int32Array(k);
     this.nChannel = new Uint8Array(k);
+    this.tiedToRail = new Uint8Array(k);
     this.gate = new Int32Array(k);
     this.polarity = new Array(k);
     for (let i = 0; i < k; i++) {
@@ -48,6 +50,7 @@ export class StageLogic {
       const r = railOf(g);
       if (r) {
         this.state[i] = (r === 'power') === (m.polarity === 'n') ? ALWAYS : NEVER;
+        this.tiedToRail[i] = 1;
         continue;
       }
       const b = stage.inputs.indexOf(g);
@@ -70,6 +73,11 @@ export class StageLogic {
   /** Whether the element's gate is one of the stage inputs. */
   inputGated(element: number): boolean {
     return this.state[element] === INPUT;
+  }
+
+  /** Whether the element's gate is tied to a rail (a constant input, as when a parent ties a gate high or low). */
+  gateTied(element: number): boolean {
+    return this.tiedToRail[element] === 1;
   }
 
   /** Whether the element conducts whatever the inputs are. */
@@ -128,8 +136,9 @@ function directLeaves(n: Network): number[] {
   return out;
 }
 
+/** Every element of the given polarity and gated by an input or by a rail (a constant). */
 function allOf(logic: StageLogic, elements: readonly number[], polarity: 'n' | 'p'): boolean {
-  for (const e of elements) if (logic.polarity[e] !== polarity || !logic.inputGated(e)) return false;
+  for (const e of elements) if (logic.polarity[e] !== polarity || !(logic.inputGated(e) || logic.gateTied(e))) return false;
   return true;
 }
 
@@ -153,8 +162,9 @@ export function classifyStage(
   const k = stage.inputs.length;
   const exhaustive = k <= MAX_TRUTH_TABLE_INPUTS;
 
-  // Static complementary: p-channel up, n-channel down, input-gated, and exactly one network conducting for every input combination.
-  if (allOf(logic, up, 'p') && allOf(logic, down, 'n')) {
+  // Static complementary: p-channel up, n-channel down, gated by inputs (or tied to a rail), and exactly one network
+  // conducting for every input combination.
+  if (k >= 1 && allOf(logic, up, 'p') && allOf(logic, down, 'n')) {
     let complementary = true;
     if (exhaustive) {
       for (let mask = 0; mask < 1 << k && complementary; mask++) {

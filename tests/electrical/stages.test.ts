@@ -170,3 +170,20 @@ describe('stage extraction', () => {
     expect(t.stages.stages[0].kind).toBe('complementary');
   });
 });
+
+describe('stages in context', () => {
+  it('a NAND2 whose parent ties one input high is an inverter in that context (the tied devices are constants)', () => {
+    const cell = new CellBuilder('nand2', ['a', 'b', 'y', 'vdd', 'vss'])
+      .pmos('MP1', 'y', 'a', 'vdd', 'vdd', s)
+      .pmos('MP2', 'y', 'b', 'vdd', 'vdd', s)
+      .nmos('MN1', 'y', 'a', 'm', 'vss', s)
+      .nmos('MN2', 'm', 'b', 'vss', 'vss', s)
+      .build();
+    const rails = localRails(designOf([cell]), cell, deck);
+    rails[cell.netIndex.get('b')!] = 'power';
+    const st = extractStages(cell, rails).stages;
+    expect(st).toHaveLength(1);
+    expect(st[0].kind).toBe('inverter');
+    expect(st[0].inputs.map((n) => cell.nets[n])).toEqual(['a']);
+  });
+});
