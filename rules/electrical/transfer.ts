@@ -180,11 +180,14 @@ export function analyseTransfer(circuit: StageCircuit, options: TransferOptions 
   let vmOut = 0;
   let vmDefinition: TransferResult['vmDefinition'] = 'vout-equals-vin';
   let bestGain = -1;
+  const railMargin = 1e-3 * vdd;
   for (let i = 0; i < n - 1; i++) {
     const d0 = vout[i] - vin[i];
     const d1 = vout[i + 1] - vin[i + 1];
     if (d0 === 0 || (d0 > 0) !== (d1 > 0)) {
       const x = d0 === 0 ? vin[i] : brent((y) => solver.balance(y, y), vin[i], vin[i + 1], 1e-12);
+      // A non-inverting stage that passes a rail (a follower at 0 V) meets Vout = Vin there: not a switching threshold.
+      if (x < railMargin || x > vdd - railMargin) continue;
       const g = Math.abs(secant(i));
       if (g > bestGain) {
         bestGain = g;
@@ -194,18 +197,12 @@ export function analyseTransfer(circuit: StageCircuit, options: TransferOptions 
     }
   }
   if (vm === null) {
-    const d = vout[n - 1] - vin[n - 1];
-    if (d === 0) {
-      vm = vin[n - 1];
-      vmOut = vm;
-    } else {
-      vmDefinition = 'mid-swing';
-      const mid = 0.5 * (voh + vol);
-      let i = 0;
-      while (i < n - 2 && (vout[i] - mid > 0) === (vout[i + 1] - mid > 0)) i++;
-      vm = brent((x) => solver.vout(x) - mid, vin[i], vin[i + 1], 1e-12);
-      vmOut = solver.vout(vm);
-    }
+    vmDefinition = 'mid-swing';
+    const mid = 0.5 * (voh + vol);
+    let i = 0;
+    while (i < n - 2 && (vout[i] - mid > 0) === (vout[i + 1] - mid > 0)) i++;
+    vm = brent((x) => solver.vout(x) - mid, vin[i], vin[i + 1], 1e-12);
+    vmOut = solver.vout(vm);
   }
   const gainAtVm = solver.slope(vm, vmOut);
 

@@ -97,3 +97,31 @@ describe('stage transfer curves against ngspice', () => {
     expect(ours.nmh).toBeNull();
   });
 });
+
+describe('a non-inverting stage against ngspice', () => {
+  it('n-channel source follower with a resistive load: positive gain, mid-swing threshold, no unity-gain points', () => {
+    const cell = new CellBuilder('follow', ['in', 'out', 'vdd', 'vss'])
+      .nmos('MF', 'vdd', 'in', 'out', 'vss', { w: 4e-6, l: 0.25e-6, model: 'nm' })
+      .res('RL', 'out', 'vss', 20e3)
+      .build();
+    const analysed = analyseCell(cell, deck, CARDS);
+    expect(analysed.driving('out').stage.kind).toBe('ratioed');
+    const ours = sweptResult(analysed, 'out', 'in').result;
+    const sweep = dcSweep([...MODELS, `vdd vdd 0 ${VDD}`, 'vin in 0 0', 'mf vdd in out 0 nm w=4u l=0.25u', 'rl out 0 20k'].join('\n'), { source: 'vin', start: 0, stop: VDD, step: 0.0005 }, ['v(out)']);
+    const ref = curvePoints(sweep.x, sweep.y[0]);
+    // A follower's output stays a threshold (raised by body effect) below its input: the curve never meets Vout = Vin.
+    expect(Number.isNaN(ref.vm)).toBe(true);
+    expect(ours.inverting).toBe(false);
+    expect(ours.vmDefinition).toBe('mid-swing');
+    expect(ours.gainAtVm).toBeGreaterThan(0);
+    expect(ours.gainAtVm).toBeLessThan(1);
+    expect(ours.vil).toBeNull();
+    // The ngspice curve at the same input: output level within 20 mV, slope within 5 %.
+    const i = sweep.x.findIndex((x) => x >= ours.vm);
+    expect(Math.abs(sweep.y[0][i] - (0.5 * (ours.voh + ours.vol)))).toBeLessThan(0.02);
+    const refSlope = (sweep.y[0][i + 1] - sweep.y[0][i - 1]) / (sweep.x[i + 1] - sweep.x[i - 1]);
+    expect(Math.abs(ours.gainAtVm - refSlope)).toBeLessThan(0.05 * refSlope);
+    expect(Math.abs(ours.maxGain - ref.maxGain)).toBeLessThan(0.05 * ref.maxGain);
+    expect(Math.abs(ours.voh - ref.voh)).toBeLessThan(0.02);
+  });
+});

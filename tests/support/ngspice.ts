@@ -101,7 +101,10 @@ export function curvePoints(vin: number[], vout: number[]): CurvePoints {
     const d0 = vout[i] - vin[i];
     const d1 = vout[i + 1] - vin[i + 1];
     if ((d0 > 0) !== (d1 > 0)) {
-      vm = vin[i] + ((vin[i + 1] - vin[i]) * d0) / (d0 - d1);
+      const x = vin[i] + ((vin[i + 1] - vin[i]) * d0) / (d0 - d1);
+      // Meeting Vout = Vin at a rail (a follower at 0 V) is no switching threshold; same convention as the solver.
+      if (x < 1e-3 * vin[n - 1] || x > vin[n - 1] * (1 - 1e-3)) continue;
+      vm = x;
       break;
     }
   }
