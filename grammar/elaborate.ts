@@ -270,10 +270,24 @@ class Elaborator {
     return def;
   }
 
-  /** Walk statements into `def` (the top level or a subcircuit body); `nets` is the node table of their body. */
-  private collect(statements: readonly Statement[], def: CellDef, file: string, nets: NameTable): void {
-    const scope = def === this.top ? this.global : def.scope;
-    for (const s of statements) {
+  /**
+   * Walk statements into `def` (the top level or a subcircuit body); `nets` is the node table of their body.
+   * Nested definitions and included files are walked in place, in source order, with an explicit stack.
+   */
+  private collect(statements: readonly Statement[], root: CellDef, rootFile: string, rootNets: NameTable): void {
+    const frames: { statements: readonly Statement[]; i: number; def: CellDef; file: string; nets: NameTable; included: boolean }[] = [
+      { statements, i: 0, def: root, file: rootFile, nets: rootNets, included: false },
+    ];
+    while (frames.length) {
+      const frame = frames[frames.length - 1];
+      if (frame.i >= frame.statements.length) {
+        frames.pop();
+        if (frame.included) this.includeStack.pop();
+        continue;
+      }
+      const s = frame.statements[frame.i++];
+      const { def, file, nets } = frame;
+      const scope = def === this.top ? this.global : def.scope;
       switch (s.kind) {
         case 'mos':
         case 'instance':
@@ -288,12 +302,14 @@ class Elaborator {
           def.elements.push(s);
           break;
         }
-        case 'subckt':
-          this.define(s, scope, file);
+        case 'subckt': {
+          const child = this.define(s, scope, file);
+          if (child) frames.push({ statements: s.body, i: 0, def: child, file, nets: s.nets, included: false });
           break;
+        }
         case 'param':
           if (def === this.top) for (const p of s.params) this.globalParams.set(p.name, { value: p.value, file, offset: p.offset });
-          else def.localParams.push(...s.params);
+          else for (const p of s.params) def.localParams.push(p);
           break;
         case 'model':
           this.addModel(s.name, s.type, s.params, s.loc);
@@ -312,14 +328,17 @@ class Elaborator {
           break;
         case 'pininfo':
           if (def === this.top) this.reportAt('warning', 'pininfo-outside', s.loc, '*.PININFO outside a .subckt is ignored');
-          else def.pinInfo.push(...s.entries);
+          else for (const e of s.entries) def.pinInfo.push(e);
           break;
         case 'include':
-          this.splice(s.path, s.pathOffset, '', file, def, scope);
+        case 'lib': {
+          const target = this.includeTarget(s.path, s.pathOffset, s.kind === 'lib' ? s.section : '', file, scope);
+          if (target) {
+            this.includeStack.push(target.path);
+            frames.push({ statements: target.statements, i: 0, def, file: target.path, nets: target.nets, included: true });
+          }
           break;
-        case 'lib':
-          this.splice(s.path, s.pathOffset, s.section, file, def, scope);
-          break;
+        }
         case 'libsection':
           // A section definition is read only when a `.lib file section` names it.
           break;
@@ -327,25 +346,23 @@ class Elaborator {
     }
   }
 
-  private define(s: SubcktStatement, scope: Scope, file: string): void {
-    if (!s.name) {
-      // Reported by the parser; still read its body so that nested problems show.
-      return;
-    }
+  /** Register a definition in its scope; null when it is not to be read (no name, or a repeat). */
+  private define(s: SubcktStatement, scope: Scope, file: string): CellDef | null {
+    if (!s.name) return null; // reported by the parser
     const key = s.name.toLowerCase();
     const existing = scope.defs.get(key);
     if (existing) {
-      if (existing.stmt === s) return;
+      if (existing.stmt === s) return null;
       const a = existing.stmt ? this.definitionText(existing) : null;
       const b = this.texts.get(file)?.slice(s.start, s.end);
-      if (a !== null && a === b) return; // the same definition repeated verbatim (one macro's cells in two files)
+      if (a !== null && a === b) return null; // the same definition repeated verbatim (one macro's cells in two files)
       this.report('error', 'duplicate-subckt', file, s.nameOffset, `subcircuit ${s.name} is defined again (first at ${existing.loc.file}:${existing.loc.line})`, 'rename one of them or remove the repeat; the first definition is used');
-      return;
+      return null;
     }
     const inner: Scope = { defs: new Map(), parent: scope, included: new Set() };
     const def = this.newDef(s.name, s, s.loc, inner);
     scope.defs.set(key, def);
-    this.collect(s.body, def, file, s.nets);
+    return def;
   }
 
   private definitionText(def: CellDef): string | undefined {
@@ -353,12 +370,13 @@ class Elaborator {
     return this.texts.get(def.loc.file)?.slice(s.start, s.end);
   }
 
-  private splice(written: string, pathOffset: number, section: string, fromFile: string, def: CellDef, scope: Scope): void {
+  /** The statements an `.include`/`.lib` brings into `scope`, or null (with a diagnostic when it is a problem). */
+  private includeTarget(written: string, pathOffset: number, section: string, fromFile: string, scope: Scope): { path: string; statements: readonly Statement[]; nets: NameTable } | null {
     const resolved = resolveInclude(fromFile, written);
     const what = section ? `.lib "${written}" ${section}` : `.include "${written}"`;
     if ('outside' in resolved) {
       this.report('error', 'include-outside', fromFile, pathOffset, `${what} leaves the set of uploaded files`, 'include files by a path relative to the including file, inside the uploaded folder');
-      return;
+      return null;
     }
     let path = resolved.path;
     if (!this.texts.has(path)) {
@@ -369,12 +387,12 @@ class Elaborator {
         const lower = path.toLowerCase();
         const near = [...this.texts.keys()].find((p) => p.toLowerCase() === lower);
         this.report('error', 'include-not-found', fromFile, pathOffset, `${what}: no such file among the uploaded files`, near ? `did you mean "${near}"? (names are case-sensitive)` : 'upload the file with the netlist, or remove the include');
-        return;
+        return null;
       }
     }
     if (this.includeStack.includes(path)) {
       this.report('error', 'include-cycle', fromFile, pathOffset, `${what} includes a file that is already being read (${[...this.includeStack, path].join(' → ')})`, 'remove the include that closes the cycle');
-      return;
+      return null;
     }
     const guard = `${path}#${section}`;
     if (scope.included.has(guard)) {
@@ -382,7 +400,7 @@ class Elaborator {
       if (!(scope === this.global && this.entries.has(path) && !section)) {
         this.report('warning', 'repeated-include', fromFile, pathOffset, `${what} was already read into this scope; read once`);
       }
-      return;
+      return null;
     }
     scope.included.add(guard);
     const ast = this.parse(path, false);
@@ -392,14 +410,12 @@ class Elaborator {
       const found = ast.statements.find((s) => s.kind === 'libsection' && s.name === section);
       if (!found || found.kind !== 'libsection') {
         this.report('error', 'lib-section-not-found', fromFile, pathOffset, `${what}: the file has no section "${section}"`);
-        return;
+        return null;
       }
       statements = found.body;
       nets = found.nets;
     }
-    this.includeStack.push(path);
-    this.collect(statements, def, path, nets);
-    this.includeStack.pop();
+    return { path, statements, nets };
   }
 
   private addModel(name: string, type: string, params: Param[], loc: SourceLoc): void {
@@ -1069,8 +1085,9 @@ class Elaborator {
   private allDiagnostics(): Diagnostic[] {
     const order = new Map([...this.asts.keys()].map((p, i) => [p, i]));
     const all: Diagnostic[] = [];
-    for (const ast of this.asts.values()) all.push(...ast.diagnostics);
-    all.push(...this.diagnostics);
+    // (Loops, not spreads: a hostile file can carry a million diagnostics.)
+    for (const ast of this.asts.values()) for (const d of ast.diagnostics) all.push(d);
+    for (const d of this.diagnostics) all.push(d);
     return all.sort((a, b) => (order.get(a.file) ?? -1) - (order.get(b.file) ?? -1) || a.line - b.line || a.column - b.column);
   }
 }

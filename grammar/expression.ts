@@ -210,16 +210,16 @@ function collectRefs(node: ExprNode, out: Set<string>): void {
         stack.push(n.x);
         break;
       case 'sum':
-        stack.push(...n.terms);
+        for (const x of n.terms) stack.push(x);
         break;
       case 'prod':
-        stack.push(...n.factors);
+        for (const x of n.factors) stack.push(x);
         break;
       case 'pow':
-        stack.push(...n.chain);
+        for (const x of n.chain) stack.push(x);
         break;
       case 'call':
-        stack.push(...n.args);
+        for (const x of n.args) stack.push(x);
         break;
     }
   }

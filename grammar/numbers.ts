@@ -6,18 +6,18 @@
 
 export type NumberResult = { ok: true; value: number } | { ok: false; reason: 'malformed' | 'non-finite' };
 
-const SCALE: Record<string, number> = {
-  t: 1e12,
-  g: 1e9,
-  k: 1e3,
-  m: 1e-3,
-  u: 1e-6,
-  µ: 1e-6,
-  μ: 1e-6,
-  n: 1e-9,
-  p: 1e-12,
-  f: 1e-15,
-  a: 1e-18,
+const SCALE_EXPONENT: Record<string, number> = {
+  t: 12,
+  g: 9,
+  k: 3,
+  m: -3,
+  u: -6,
+  µ: -6,
+  μ: -6,
+  n: -9,
+  p: -12,
+  f: -15,
+  a: -18,
 };
 
 function isDigit(c: number): boolean {
@@ -68,20 +68,26 @@ export function parseSpiceNumber(text: string): NumberResult {
       end = j;
     }
   }
-  let value = Number(text.slice(0, end));
   // Suffix: letters only.
   for (let k = end; k < n; k++) {
     if (!isLetter(text.charCodeAt(k))) return { ok: false, reason: 'malformed' };
   }
+  // A power-of-ten scale factor joins the exponent, so that the result is the correctly rounded
+  // decimal (`0.15u` is exactly the double nearest 1.5e-7, not 0.15 × 1e-6).
+  let value: number;
   if (end < n) {
     const suffix = text.slice(end, end + 3).toLowerCase();
-    if (suffix === 'meg') value *= 1e6;
-    else if (suffix === 'mil') value *= 25.4e-6;
+    const mantissa = text.slice(0, end);
+    if (suffix === 'mil') value = Number(mantissa) * 25.4e-6;
     else {
-      const scale = SCALE[suffix[0]];
-      if (scale !== undefined) value *= scale;
+      const exponent = suffix === 'meg' ? 6 : SCALE_EXPONENT[suffix[0]];
+      if (exponent === undefined || exponent === 0) value = Number(mantissa);
+      else {
+        const e = mantissa.search(/[eE]/);
+        value = e < 0 ? Number(`${mantissa}e${exponent}`) : Number(`${mantissa.slice(0, e)}e${Number(mantissa.slice(e + 1)) + exponent}`);
+      }
     }
-  }
+  } else value = Number(text);
   if (!Number.isFinite(value)) return { ok: false, reason: 'non-finite' };
   return { ok: true, value };
 }

@@ -91,6 +91,9 @@ const KNOWN_COMMANDS = new Set([
 
 const SOURCE_FUNCTIONS = new Set(['pulse', 'sin', 'pwl', 'exp', 'sffm', 'am', 'trnoise', 'trrandom', 'pat', 'distof1', 'distof2']);
 
+/** Beyond this, a file is probably not a netlist at all; the count of the rest is reported. */
+const MAX_DIAGNOSTICS_PER_FILE = 1000;
+
 const PIN_DIRECTIONS: Record<string, PinDirection> = { i: 'input', o: 'output', b: 'inout', p: 'inout', g: 'inout' };
 
 export interface ParseOptions {
@@ -154,6 +157,7 @@ class FileBuilder {
   /** Offset of the piece being parsed within the file. */
   base = 0;
   private ended = false;
+  private suppressed = 0;
   /** Values that could not be read so far; an element whose count changed is left out. */
   private valueErrors = 0;
   private control: SourceLoc | null = null;
@@ -251,6 +255,10 @@ class FileBuilder {
   }
 
   report(severity: DiagnosticSeverity, code: string, offset: number, message: string, hint?: string): void {
+    if (this.diagnostics.length >= MAX_DIAGNOSTICS_PER_FILE) {
+      this.suppressed++;
+      return;
+    }
     const at = this.cursor.at(offset);
     this.diagnostics.push({ severity, code, message, ...(hint ? { hint } : {}), file: at.file, line: at.line, column: at.column });
   }
@@ -542,11 +550,13 @@ class FileBuilder {
           i = line.length;
           break;
         }
-        if (dc === undefined && looksNumeric(w)) {
-          dc = this.value(line, i);
+        if (looksNumeric(w)) {
+          if (dc === undefined) dc = this.value(line, i);
           i++;
           continue;
         }
+        this.error('syntax', line.at(i), `${name}: unexpected "${w.slice(0, 24)}" in a source`, `a source is: ${kind === 'vsrc' ? 'V' : 'I'}<name> node+ node- [DC] value [AC mag [phase]] [pulse(…)|sin(…)|pwl(…)|exp(…)]`);
+        this.valueErrors++;
         i++;
         continue;
       }
@@ -954,6 +964,17 @@ class FileBuilder {
   // ---- end of file ----
 
   finish(): void {
+    if (this.suppressed) {
+      this.diagnostics.push({
+        severity: 'error',
+        code: 'too-many-problems',
+        message: `${this.suppressed} more problems in this file are not listed`,
+        hint: 'fix the ones above first; is this file a netlist?',
+        file: this.path,
+        line: this.starts.length,
+        column: 1,
+      });
+    }
     while (this.stack.length) {
       const open = this.stack.pop()!;
       if (open.kind === 'subckt') {
