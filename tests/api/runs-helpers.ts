@@ -176,12 +176,7 @@ export async function waitForRun(
 }
 
 /** Submit a run by uploading files (name → text or bytes). */
-export async function submitUpload(
-  agent: request.Agent,
-  blockId: string,
-  files: Record<string, string | Buffer>,
-  fields: Record<string, string> = {},
-): Promise<request.Response> {
+export function submitUpload(agent: request.Agent, blockId: string, files: Record<string, string | Buffer>, fields: Record<string, string> = {}): request.Test {
   let req = agent.post('/api/runs').field('blockId', blockId);
   for (const [k, v] of Object.entries(fields)) req = req.field(k, v);
   for (const [name, content] of Object.entries(files)) req = req.attach('files', Buffer.isBuffer(content) ? content : Buffer.from(content), name);
