@@ -10,7 +10,7 @@
 import crypto from 'node:crypto';
 import type { Permission } from '../../shared/roles';
 import type { Team } from '../../server/db/models';
-import { MailMessage } from '../../server/db/models';
+import { MailMessage, Run } from '../../server/db/models';
 import { createUser, uniqueEmail, type CreatedUser, type TestEnv } from './helpers';
 import { defaultDeck } from '../../rules/default-deck';
 import { INVERTER_NETLIST, makeDeck, makeNetlist, type DeckFixture } from './decks-fixtures';
@@ -103,7 +103,48 @@ export const ROUTES: RouteCase[] = [
     body: () => ({}),
   },
   { method: 'get', path: '/api/rules', permission: 'design.read' },
+
+  // Runs and uploads. POST /api/uploads (multipart) and POST /api/runs/:id/cancel (own runs only) are tried by role in runs.test.ts.
+  { method: 'get', path: '/api/runs', permission: 'design.read' },
+  {
+    method: 'post',
+    path: '/api/runs',
+    permission: 'run.submit',
+    body: async (fx) => {
+      await makeDeck(fx.team.id);
+      return { netlistId: (await makeNetlist(fx.team.id, fx.blockId, { 'top.sp': INVERTER_NETLIST })).id, note: 'submitted by the permission table' };
+    },
+  },
+  { method: 'get', path: async (fx) => `/api/runs/${(await makeFinishedRun(fx)).id}`, permission: 'design.read' },
+  { method: 'get', path: async (fx) => `/api/runs/${(await makeFinishedRun(fx)).id}/findings`, permission: 'design.read' },
+  { method: 'get', path: async (fx) => `/api/runs/${(await makeFinishedRun(fx)).id}/files`, permission: 'design.read' },
+  { method: 'get', path: async (fx) => `/api/runs/${(await makeFinishedRun(fx)).id}/file?path=top.sp`, permission: 'design.read' },
+  {
+    method: 'get',
+    path: async (fx) => `/api/runs/${(await makeFinishedRun(fx)).id}/compare/${(await makeFinishedRun(fx)).id}`,
+    permission: 'design.read',
+  },
+  { method: 'get', path: async (fx) => `/api/uploads/${(await makeNetlist(fx.team.id, fx.blockId, { 'top.sp': INVERTER_NETLIST })).id}`, permission: 'design.read' },
 ];
+
+/** A succeeded run (no findings) of the fixture's block, made through the models. */
+async function makeFinishedRun(fx: RouteFixture): Promise<Run> {
+  const { published } = await makeDeck(fx.team.id);
+  const netlist = await makeNetlist(fx.team.id, fx.blockId, { 'top.sp': INVERTER_NETLIST });
+  return Run.create({
+    teamId: fx.team.id,
+    blockId: fx.blockId,
+    netlistId: netlist.id,
+    deckVersionId: published.id,
+    submittedBy: fx.member.user.id,
+    state: 'succeeded',
+    progress: null,
+    error: null,
+    summary: null,
+    startedAt: new Date(),
+    finishedAt: new Date(),
+  });
+}
 
 const deckVersionPath = (d: DeckFixture) => `/api/decks/${d.deck.id}/versions/${d.published.id}`;
 const deckDraftPath = (d: DeckFixture) => `/api/decks/${d.deck.id}/versions/${d.draft!.id}`;
