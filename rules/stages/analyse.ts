@@ -11,7 +11,7 @@
 import type { Cell, Design, RailKind } from '../../grammar/design';
 import type { Corner, Deck } from '../../shared/deck';
 import type { CircuitElement, Network } from '../electrical/network';
-import { mapNetwork } from '../electrical/network';
+import { mapNetwork, networkElements } from '../electrical/network';
 import { ModelResolver, type ResolvedModel } from '../electrical/parameters';
 import { analyseTransfer, FIRST_INTERNAL, GROUND, INPUT, OUTPUT, POWER, TransferSolver, type StageCircuit, type TransferResult } from '../electrical/transfer';
 import { outputValue, stageLogic } from './classify';
@@ -24,6 +24,8 @@ export const STATIC_KINDS: ReadonlySet<Stage['kind']> = new Set(['inverter', 'co
 /** At most this many held-input combinations are solved per swept input (spread over the sensitising ones). */
 export const MAX_CASES_PER_INPUT = 6;
 const MAX_ENUMERATED_OTHERS = 10;
+/** Input assignments are bit masks; wider stages are not analysed. */
+const MAX_ANALYSED_INPUTS = 30;
 
 export interface HeldInput {
   net: number;
@@ -130,6 +132,14 @@ function networkKey(n: Network): string {
   return n.kind === 'series' ? `S(${inner})[${n.nodes.join(',')}]` : `P(${inner})`;
 }
 
+/** Which of a stage's elements sit in its pull-up or pull-down network (others, such as a dangling pass gate, carry no output current). */
+export function inNetworks(stage: Stage): Uint8Array {
+  const mask = new Uint8Array(stage.elements.length);
+  if (stage.pullUp) for (const e of networkElements(stage.pullUp)) mask[e] = 1;
+  if (stage.pullDown) for (const e of networkElements(stage.pullDown)) mask[e] = 1;
+  return mask;
+}
+
 export interface StageEnvironment {
   design: Design;
   cell: Cell;
@@ -172,7 +182,14 @@ export function stageCircuit(
   const elements: CircuitElement[] = [];
   const parts: string[] = [String(vdd)];
   const used = new Map<string, ModelUse>();
-  for (const el of stage.elements) {
+  const active = inNetworks(stage);
+  for (let i = 0; i < stage.elements.length; i++) {
+    const el = stage.elements[i];
+    if (!active[i]) {
+      elements.push({ kind: 'res', conductance: 0 });
+      parts.push('-');
+      continue;
+    }
     if (el.kind === 'res') {
       const r = cell.others[el.index];
       const g = r.kind === 'res' && r.value > 0 ? 1 / r.value : 0;
@@ -201,7 +218,12 @@ export function stageCircuit(
 export function sensitisingCases(env: StageEnvironment, stage: Stage, swept: number): HeldInput[][] {
   const logic = stageLogic(stage, env.cell, env.railOf, env.alias);
   const bit = stage.inputs.indexOf(swept);
-  const others = stage.inputs.map((_, i) => i).filter((i) => i !== bit);
+  // Only inputs that gate a network device can hold the output; the others are left out of the cases.
+  const active = inNetworks(stage);
+  const gating = new Set<number>();
+  for (let e = 0; e < stage.elements.length; e++) if (active[e] && logic.inputGated(e)) gating.add(stage.inputs.indexOf(logic.gate[e]));
+  if (!gating.has(bit)) return [];
+  const others = [...gating].filter((i) => i !== bit).sort((x, y) => x - y);
   const masks: number[] = [];
   if (others.length <= MAX_ENUMERATED_OTHERS) {
     for (let m = 0; m < 1 << others.length; m++) masks.push(m);
@@ -258,7 +280,13 @@ export function stageSignature(env: StageEnvironment, stage: Stage): string {
     return x;
   };
   const parts: string[] = [stage.kind];
-  for (const el of stage.elements) {
+  const active = inNetworks(stage);
+  for (let i = 0; i < stage.elements.length; i++) {
+    const el = stage.elements[i];
+    if (!active[i]) {
+      parts.push('-');
+      continue;
+    }
     if (el.kind === 'res') {
       const r = cell.others[el.index];
       parts.push('r' + (r.kind === 'res' ? r.value : 0));
@@ -349,6 +377,7 @@ export function analyseStage(env: StageEnvironment, stage: Stage): StageAnalysis
     return new StageAnalysisView(stage, null, `${stage.kind} stage: no static transfer curve${why}`);
   }
   if (!stage.pullUp || !stage.pullDown) return new StageAnalysisView(stage, null, 'networks are not series/parallel');
+  if (stage.inputs.length > MAX_ANALYSED_INPUTS) return new StageAnalysisView(stage, null, `${stage.inputs.length} inputs: beyond the ${MAX_ANALYSED_INPUTS} whose held values can be enumerated`);
   const memo = memoOf(env.design);
   let byDeck = memo.stages.get(env.deck);
   if (!byDeck) memo.stages.set(env.deck, (byDeck = new Map()));
