@@ -4,6 +4,7 @@ import { monaco } from './monaco-setup';
 import { SPICE_LANGUAGE_ID } from './spice-language';
 import { NETLIST_THEME } from './theme';
 import { tone as tones } from '../../design/palette';
+import { registerOpener, registerWorkspace } from './definition-provider';
 import type { GutterMark, HighlightRange, NetlistEditorProps } from './types';
 
 type Decoration = monaco.editor.IModelDeltaDecoration;
@@ -45,6 +46,12 @@ function toDecorations(highlights: HighlightRange[], marks: GutterMark[], lineCo
   return out;
 }
 
+/** The model address of a file: the file name alone, or under the workspace's own folder. */
+function modelPath(fileName: string, workspaceId: string | undefined) {
+  if (workspaceId === undefined) return fileName;
+  return `/${encodeURIComponent(workspaceId)}/${fileName.split('/').map(encodeURIComponent).join('/')}`;
+}
+
 /** A SPICE-family netlist in Monaco, with Keepwell's colouring, line tints and gutter marks. */
 export default function NetlistEditor({
   value,
@@ -58,16 +65,80 @@ export default function NetlistEditor({
   height = '100%',
   ariaLabel,
   className,
+  files,
+  workspaceId,
+  onOpenFile,
+  onNavigateFinding,
 }: NetlistEditorProps) {
   const editorRef = useRef<monaco.editor.IStandaloneCodeEditor | null>(null);
   const decorationsRef = useRef<monaco.editor.IEditorDecorationsCollection | null>(null);
   const marksRef = useRef(marks);
   const onMarkClickRef = useRef(onMarkClick);
+  const onOpenFileRef = useRef(onOpenFile);
+  const onNavigateRef = useRef(onNavigateFinding);
+  const fileNameRef = useRef(fileName);
+  /** A definition in another file, waiting for that file to be shown. */
+  const pendingRef = useRef<{ path: string; position: monaco.IPosition } | null>(null);
   marksRef.current = marks;
   onMarkClickRef.current = onMarkClick;
+  onOpenFileRef.current = onOpenFile;
+  onNavigateRef.current = onNavigateFinding;
+  fileNameRef.current = fileName;
+
+  // The other files of the set become models too, so definitions in them can be found, peeked and opened.
+  useEffect(() => {
+    if (!files?.length) return;
+    const uriOf = (path: string) => monaco.Uri.parse(modelPath(path, workspaceId));
+    const created: monaco.editor.ITextModel[] = [];
+    for (const file of files) {
+      const uri = uriOf(file.path);
+      if (!monaco.editor.getModel(uri)) created.push(monaco.editor.createModel(file.text, SPICE_LANGUAGE_ID, uri));
+    }
+    const unregister = registerWorkspace(files, uriOf);
+    return () => {
+      unregister();
+      const attached = new Set(monaco.editor.getEditors().map((e) => e.getModel()));
+      for (const model of created) if (!model.isDisposed() && !attached.has(model)) model.dispose();
+    };
+  }, [files, workspaceId]);
+
+  function showPosition(position: monaco.IPosition) {
+    const editor = editorRef.current;
+    if (!editor) return;
+    editor.setPosition(position);
+    editor.revealPositionInCenter(position, monaco.editor.ScrollType.Smooth);
+    editor.focus();
+  }
 
   const handleMount: OnMount = (editor) => {
     editorRef.current = editor;
+    registerOpener(editor, (path, position) => {
+      if (path === fileNameRef.current) {
+        showPosition(position);
+        return true;
+      }
+      if (!onOpenFileRef.current) return false;
+      pendingRef.current = { path, position };
+      onOpenFileRef.current(path);
+      return true;
+    });
+    const navigate = (direction: 'next' | 'previous') => () => onNavigateRef.current?.(direction);
+    editor.addAction({
+      id: 'keepwell.next-finding',
+      label: 'Next finding',
+      keybindings: [monaco.KeyCode.F8],
+      contextMenuGroupId: 'navigation',
+      contextMenuOrder: 10,
+      run: navigate('next'),
+    });
+    editor.addAction({
+      id: 'keepwell.previous-finding',
+      label: 'Previous finding',
+      keybindings: [monaco.KeyMod.Shift | monaco.KeyCode.F8],
+      contextMenuGroupId: 'navigation',
+      contextMenuOrder: 11,
+      run: navigate('previous'),
+    });
     decorationsRef.current = editor.createDecorationsCollection();
     editor.onMouseDown((e) => {
       if (e.target.type !== monaco.editor.MouseTargetType.GUTTER_GLYPH_MARGIN || !e.target.position) return;
@@ -87,15 +158,24 @@ export default function NetlistEditor({
 
   useEffect(applyDecorations, [highlights, marks, value]);
 
+  // A finding's line is revealed whenever it or the file changes; a pending definition (just
+  // switched to its file) comes after and wins.
   useEffect(() => {
     if (revealLine && editorRef.current) editorRef.current.revealLineInCenter(revealLine, monaco.editor.ScrollType.Smooth);
-  }, [revealLine]);
+  }, [revealLine, fileName]);
+
+  useEffect(() => {
+    const pending = pendingRef.current;
+    if (!pending || pending.path !== fileName) return;
+    pendingRef.current = null;
+    showPosition(pending.position);
+  }, [fileName]);
 
   return (
     <div className={className} style={{ height }}>
       <Editor
         value={value}
-        path={fileName}
+        path={modelPath(fileName, workspaceId)}
         language={SPICE_LANGUAGE_ID}
         theme={NETLIST_THEME}
         onMount={handleMount}

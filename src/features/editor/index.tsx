@@ -5,7 +5,7 @@ import { lazy, Suspense } from 'react';
 import { Loading } from '../../components/LoadState';
 import type { NetlistEditorProps } from './types';
 
-export type { GutterMark, HighlightRange, MarkTone, NetlistEditorProps } from './types';
+export type { GutterMark, HighlightRange, MarkTone, NetlistEditorProps, NetlistFileText } from './types';
 
 const LazyEditor = lazy(() => import('./NetlistEditor'));
 

@@ -13,6 +13,8 @@ import 'monaco-editor/features/wordHighlighter/register';
 import 'monaco-editor/features/contextmenu/register';
 import 'monaco-editor/features/clipboard/register';
 import 'monaco-editor/features/gotoLine/register';
+// Go to definition (F12, Ctrl+click) from an instance to its `.subckt`: ./definition-provider.ts.
+import 'monaco-editor/features/gotoSymbol/register';
 import 'monaco-editor/features/lineSelection/register';
 import 'monaco-editor/features/readOnlyMessage/register';
 // Look-alike and invisible characters in a netlist silently make a second net (`vdd` with a

@@ -36,4 +36,20 @@ export interface NetlistEditorProps {
   /** Accessible name of the editor, e.g. `Netlist rf_bank.sp`. */
   ariaLabel?: string;
   className?: string;
+  /**
+   * Every file of the netlist set, the shown one included, for go-to-definition: from an `X`
+   * instance to the `.subckt` it names, in whichever file defines it.
+   */
+  files?: NetlistFileText[];
+  /** Keeps the editor models of different netlist sets apart (e.g. the run's id). */
+  workspaceId?: string;
+  /** A definition lives in another file of `files`: show that file; the editor then puts the cursor on it. */
+  onOpenFile?: (path: string) => void;
+  /** The reader asked for the next or previous finding (F8 / Shift+F8, or the context menu). */
+  onNavigateFinding?: (direction: 'next' | 'previous') => void;
+}
+
+export interface NetlistFileText {
+  path: string;
+  text: string;
 }
