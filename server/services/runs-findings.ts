@@ -37,13 +37,28 @@ const FINDING_COLUMNS = `f.id, f.rule_id, f.severity, f.message, f.file, f.line,
 /**
  * An approved, unexpired waiver of the team covers a finding when it names the
  * finding's rule and fingerprint, or the rule and cell without a fingerprint, or the
- * whole rule; a waiver tied to a block covers only that block's runs.
+ * whole rule; a waiver tied to a block covers only that block's runs. The team's
+ * waivers are few next to a run's findings: they are read first and matched as
+ * lists, so no per-finding subquery runs over 100 000 rows.
  */
-const WAIVED = `exists (
-  select 1 from waivers w
-  where w.team_id = :teamId and w.state = 'approved' and (w.expires_at is null or w.expires_at > now())
-    and (w.block_id is null or w.block_id = :blockId) and w.rule_id = f.rule_id
-    and (w.fingerprint = f.fingerprint or (w.fingerprint is null and (w.cell is null or w.cell = f.cell))))`;
+async function waivedCondition(ctx: Ctx, teamId: string, blockId: string): Promise<{ sql: string; replacements: Record<string, string[]> }> {
+  const waivers = await ctx.sequelize.query<{ rule_id: string; cell: string | null; fingerprint: string | null }>(
+    `select rule_id, cell, fingerprint from waivers
+     where team_id = :teamId and state = 'approved' and (expires_at is null or expires_at > now()) and (block_id is null or block_id = :blockId)`,
+    { replacements: { teamId, blockId }, type: QueryTypes.SELECT },
+  );
+  const byFingerprint = waivers.filter((w) => w.fingerprint).map((w) => `${w.rule_id}\u0001${w.fingerprint}`);
+  const byCell = waivers.filter((w) => !w.fingerprint && w.cell).map((w) => `${w.rule_id}\u0001${w.cell}`);
+  const byRule = waivers.filter((w) => !w.fingerprint && !w.cell).map((w) => w.rule_id);
+  const terms: string[] = [];
+  if (byFingerprint.length) terms.push(`(f.rule_id || chr(1) || f.fingerprint) in (:waivedFingerprints)`);
+  if (byCell.length) terms.push(`(f.rule_id || chr(1) || f.cell) in (:waivedCells)`);
+  if (byRule.length) terms.push(`f.rule_id in (:waivedRules)`);
+  return {
+    sql: terms.length ? `(${terms.join(' or ')})` : 'false',
+    replacements: { waivedFingerprints: byFingerprint, waivedCells: byCell, waivedRules: byRule },
+  };
+}
 
 function findingView(r: FindingRowData): StoredFinding {
   return {
@@ -88,8 +103,9 @@ const likePattern = (q: string) => `%${q.toLowerCase().replace(/[\\%_]/g, (c) =>
 
 export async function listFindings(ctx: Ctx, teamId: string, runId: string, query: FindingsQuery) {
   const run = await runOfTeam(ctx, teamId, runId);
+  const waived = await waivedCondition(ctx, teamId, run.block_id);
   const where = ['f.run_id = :runId'];
-  const replacements: Record<string, unknown> = { runId, teamId, blockId: run.block_id, limit: query.pageSize, offset: (query.page - 1) * query.pageSize };
+  const replacements: Record<string, unknown> = { runId, limit: query.pageSize, offset: (query.page - 1) * query.pageSize, ...waived.replacements };
   if (query.rule?.length) {
     where.push('f.rule_id in (:rules)');
     replacements.rules = query.rule;
@@ -106,14 +122,16 @@ export async function listFindings(ctx: Ctx, teamId: string, runId: string, quer
     where.push(`f.search_text like :pattern`);
     replacements.pattern = likePattern(query.q);
   }
-  if (query.status) where.push(query.status === 'waived' ? WAIVED : `not ${WAIVED}`);
+  if (query.status) where.push(query.status === 'waived' ? waived.sql : `not ${waived.sql}`);
   const clause = where.join(' and ');
   const dir = query.order === 'desc' ? 'desc' : 'asc';
-  const order = [...ORDER[query.sort], 'f.id'].map((c) => `${c} ${dir}`).join(', ');
+  const order = (alias: string) => [...ORDER[query.sort], 'f.id'].map((c) => `${c.replace(/^f\./, `${alias}.`)} ${dir}`).join(', ');
 
+  // The page's ids first, from the sort's index alone; only those 50 rows are then read whole.
   const [rows, [{ total }]] = await Promise.all([
     ctx.sequelize.query<FindingRowData>(
-      `select ${FINDING_COLUMNS}, ${WAIVED} as waived from findings f where ${clause} order by ${order} limit :limit offset :offset`,
+      `with page as (select f.id from findings f where ${clause} order by ${order('f')} limit :limit offset :offset)
+       select ${FINDING_COLUMNS}, ${waived.sql} as waived from page join findings f on f.id = page.id order by ${order('f')}`,
       { replacements, type: QueryTypes.SELECT },
     ),
     ctx.sequelize.query<{ total: number }>(`select cast(count(*) as integer) as total from findings f where ${clause}`, { replacements, type: QueryTypes.SELECT }),
@@ -136,7 +154,8 @@ export async function compareRuns(
   if (head.block_id !== base.block_id) throw new HttpError(400, 'validation', 'Only two runs of the same block can be compared.', [{ path: 'params.baseId', message: 'another block' }]);
   for (const r of [head, base]) if (r.state !== 'succeeded') throw conflict(`Run ${r.id} has not succeeded (it is ${r.state}); only finished checks can be compared.`);
 
-  const replacements: Record<string, unknown> = { headId, baseId, teamId, blockId: head.block_id, limit: query.pageSize, offset: (query.page - 1) * query.pageSize };
+  const waived = await waivedCondition(ctx, teamId, head.block_id);
+  const replacements: Record<string, unknown> = { headId, baseId, limit: query.pageSize, offset: (query.page - 1) * query.pageSize, ...waived.replacements };
   const [counts] = await ctx.sequelize.query<{ new: number; fixed: number; persisting: number }>(
     `select
        (select cast(count(*) as integer) from findings f where f.run_id = :headId and not ${IN_BASE}) as new,
@@ -147,7 +166,7 @@ export async function compareRuns(
   const selection =
     query.kind === 'new' ? `f.run_id = :headId and not ${IN_BASE}` : query.kind === 'fixed' ? `f.run_id = :baseId and not ${IN_HEAD}` : `f.run_id = :headId and ${IN_BASE}`;
   const rows = await ctx.sequelize.query<FindingRowData>(
-    `select ${FINDING_COLUMNS}, ${WAIVED} as waived from findings f where ${selection} order by f.severity_rank, f.id limit :limit offset :offset`,
+    `select ${FINDING_COLUMNS}, ${waived.sql} as waived from findings f where ${selection} order by f.severity_rank, f.id limit :limit offset :offset`,
     { replacements, type: QueryTypes.SELECT },
   );
   return {

@@ -397,3 +397,12 @@ export async function failRun(ctx: Ctx, runId: string, error: string, diagnostic
     return true;
   });
 }
+
+/**
+ * Mark the pages just written all-visible, so that paging the new findings reads the
+ * sort indexes alone (index-only scans) instead of every row they skip. Only pages
+ * changed since the last vacuum are visited. Best effort: autovacuum gets there later anyway.
+ */
+export async function vacuumFindings(ctx: Pick<AppContext, 'sequelize'>): Promise<void> {
+  await ctx.sequelize.query('vacuum findings').catch(() => {});
+}

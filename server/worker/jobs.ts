@@ -31,6 +31,7 @@ import {
   readRun,
   stagePart,
   startExecution,
+  vacuumFindings,
   writeProgress,
   type ExecutionKind,
   type ExecutionOutcome,
@@ -192,6 +193,7 @@ export async function processRunJob(env: JobEnv, job: Job<RunJobData>): Promise<
       },
       run.attempt,
     );
+    if (result === 'succeeded') await vacuumFindings(env.ctx);
     env.log(`run ${runId}: ${result} (${outcome.findings.length} findings, ${Date.now() - started} ms)`);
     return result;
   });
@@ -256,6 +258,7 @@ export async function processMergeJob(env: JobEnv, job: Job<MergeJobData>): Prom
       breakdown: breakdownOf(merged.findings, merged.cellCounts),
       diagnostics: run?.diagnostics ?? [],
     });
+    if (result === 'succeeded') await vacuumFindings(env.ctx);
     env.log(`run ${runId}: ${result} after merging ${staged.expected} parts (${merged.findings.length} findings)`);
     return result;
   });

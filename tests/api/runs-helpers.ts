@@ -6,7 +6,7 @@ import { spawn, type ChildProcess } from 'node:child_process';
 import path from 'node:path';
 import type request from 'supertest';
 import { QueryTypes } from 'sequelize';
-import { repoRoot } from '../../server/config';
+import { repoRoot, type Config } from '../../server/config';
 import { Block, RuleDeck, RuleDeckVersion, type Team } from '../../server/db/models';
 import { defaultDeck } from '../../rules/default-deck';
 import type { RunView } from '../../shared/api/runs';
@@ -26,7 +26,7 @@ export interface WorkerProcess {
 }
 
 /** Environment a worker needs to share the test's database, Redis, prefix and public URL. */
-export function workerEnvironment(env: TestEnv, extra: Record<string, string> = {}): NodeJS.ProcessEnv {
+export function workerEnvironment(env: { config: Config }, extra: Record<string, string> = {}): NodeJS.ProcessEnv {
   const c = env.config;
   return {
     PATH: process.env.PATH,
@@ -53,7 +53,7 @@ export function workerEnvironment(env: TestEnv, extra: Record<string, string> = 
   };
 }
 
-export function startWorker(env: TestEnv, extra: Record<string, string> = {}): WorkerProcess {
+export function startWorker(env: { config: Config }, extra: Record<string, string> = {}): WorkerProcess {
   // node --import tsx, not the tsx wrapper: the pid is the worker's own, so a SIGKILL reaches it.
   const child = spawn(process.execPath, ['--import', 'tsx', path.join(repoRoot, 'server', 'worker', 'main.ts')], {
     cwd: repoRoot,

@@ -9,6 +9,7 @@ export interface BenchModule {
 const benches: { name: string; load: () => Promise<BenchModule> }[] = [
   { name: 'netlist', load: () => import('./netlist') },
   { name: 'stages', load: () => import('./stages') },
+  { name: 'queue', load: () => import('./queue') },
 ];
 
 const wanted = process.argv.slice(2);
