@@ -24,11 +24,6 @@ export function parsePointer(pointer: string): string[] {
     .map((t) => t.replace(/~1/g, '/').replace(/~0/g, '~'));
 }
 
-/** The inverse of parsePointer, for building pointers from keys. */
-export function toPointer(tokens: readonly (string | number)[]): string {
-  return tokens.map((t) => '/' + String(t).replace(/~/g, '~0').replace(/\//g, '~1')).join('');
-}
-
 // Keys that would reach an object's prototype instead of its own members.
 const FORBIDDEN_KEYS = new Set(['__proto__', 'constructor', 'prototype']);
 

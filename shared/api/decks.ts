@@ -33,6 +33,11 @@ export const jsonPointerSchema = z
   .max(400)
   .regex(/^(\/([^~/]|~[01])*)+$/, 'a JSON pointer such as /corners/0/vdd');
 
+/** An RFC 6901 pointer from keys: `~` → `~0`, `/` → `~1` in each, then joined with `/`. */
+export function toPointer(tokens: readonly (string | number)[]): string {
+  return tokens.map((t) => '/' + String(t).replace(/~/g, '~0').replace(/\//g, '~1')).join('');
+}
+
 export const patchOperationSchema = z.discriminatedUnion('op', [
   z.object({ op: z.literal('add'), path: jsonPointerSchema, value: z.unknown() }),
   z.object({ op: z.literal('replace'), path: jsonPointerSchema, value: z.unknown() }),

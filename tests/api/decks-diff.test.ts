@@ -8,12 +8,12 @@
 import Ajv2020 from 'ajv/dist/2020';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { z } from 'zod';
-import { deckDiffSchema, deckVersionSchema, ruleCatalogueSchema } from '../../shared/api/decks';
+import { deckDiffSchema, deckVersionSchema, ruleCatalogueSchema, toPointer } from '../../shared/api/decks';
 import type { Deck } from '../../shared/deck';
 import { defaultDeck } from '../../rules/default-deck';
 import { ruleRegistry } from '../../rules/registry';
 import { diffDeckContents } from '../../server/services/decks-diff';
-import { applyPatch, parsePointer, PatchError, toPointer } from '../../server/services/decks-patch';
+import { applyPatch, parsePointer, PatchError } from '../../server/services/decks-patch';
 import { createTeam, signedInAs, startTestEnv, type TestEnv } from './helpers';
 import { makeDeck } from './decks-fixtures';
 
