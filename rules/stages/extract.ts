@@ -206,12 +206,23 @@ export function extractStages(cell: Cell, rails: readonly (RailKind | undefined)
         if (!railCode[x]) degree.set(x, (degree.get(x) ?? 0) + 1);
       }
     }
-    const candidates = [...degree].sort((p, q) => q[1] - p[1] || p[0] - q[0]);
-    for (const [c] of candidates) {
+    // Of the nets that split the block, the one whose sides are purest (p-channel towards the supply, n-channel
+    // towards ground, as in static CMOS) and then most balanced: a stack node also splits it, with a device on the wrong side.
+    let best: number | null = null;
+    let bestScore = Infinity;
+    for (const [c] of [...degree].sort((p, q) => p[0] - q[0])) {
       const sides = splitAt(list, c);
-      if (sides && sides.up.length && sides.down.length) return c;
+      if (!sides || !sides.up.length || !sides.down.length) continue;
+      let wrong = 0;
+      for (const e of sides.up) if (edgePolarity[e] === POLARITY_N) wrong++;
+      for (const e of sides.down) if (edgePolarity[e] === POLARITY_P) wrong++;
+      const score = wrong * 1000 + Math.abs(sides.up.length - sides.down.length);
+      if (score < bestScore) {
+        bestScore = score;
+        best = c;
+      }
     }
-    return null;
+    return best;
   };
 
   const driverBlocks = new Map<number, BlockInfo[]>();

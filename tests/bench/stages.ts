@@ -11,7 +11,8 @@ import { checkDesign } from '../../rules/engine';
 import { defaultDeck } from '../../rules/default-deck';
 import nonRegenerative from '../../rules/stage/non-regenerative';
 import noiseMargin from '../../rules/stage/noise-margin';
-import { analysisStats, stageAnalysesOf, stagesOf } from '../../rules/stages';
+import { analysisStats, extractStages, stageAnalysesOf, stagesOf } from '../../rules/stages';
+import { localRails } from '../../rules/engine';
 import { defineRule, type RuleModule } from '../../rules/types';
 import { z } from 'zod';
 import { CellBuilder, designOf } from '../support/cell-builder';
@@ -121,8 +122,11 @@ export async function run(transistors = 1_000_000): Promise<void> {
   const cell = generateTamsin(transistors);
   const design = designOf([cell]);
   const t1 = performance.now();
-  // A timing rule runs first and asks for the memoised stages and analyses the two stage rules then reuse.
-  let extractMs = 0;
+  // Extraction timed on its own: inside a check other analyses (clock tracing) may ask for the stages first.
+  const e0 = performance.now();
+  extractStages(cell, localRails(design, cell, defaultDeck()));
+  const extractMs = performance.now() - e0;
+  // A timing rule runs first among the stage rules and asks for the memoised analyses they then reuse.
   let analyseMs = 0;
   let stageCount = 0;
   const byKind = new Map<string, number>();
@@ -130,12 +134,10 @@ export async function run(transistors = 1_000_000): Promise<void> {
     meta: { id: 'bench.stage-timing', title: 'bench', area: 'stage', rationale: '', fix: '', defaultSeverity: 'info' },
     params: z.object({}),
     check(ctx) {
-      const a = performance.now();
       const stages = stagesOf(ctx);
       const b = performance.now();
       stageAnalysesOf(ctx);
       analyseMs += performance.now() - b;
-      extractMs += b - a;
       stageCount += stages.stages.length;
       for (const s of stages.stages) byKind.set(s.kind, (byKind.get(s.kind) ?? 0) + 1);
     },

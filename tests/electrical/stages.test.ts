@@ -171,6 +171,21 @@ describe('stage extraction', () => {
   });
 });
 
+describe('unobserved outputs', () => {
+  it('an unused tri-state output is found as the output, not its stack node (p-channel side towards the supply)', () => {
+    const t = stagesOf(
+      new CellBuilder('tri', ['a', 'en', 'enb', 'vdd', 'vss'])
+        .pmos('MPA', 'p1', 'a', 'vdd', 'vdd', s)
+        .pmos('MPE', 'y', 'enb', 'p1', 'vdd', s)
+        .nmos('MNE', 'y', 'en', 'n1', 'vss', s)
+        .nmos('MNA', 'n1', 'a', 'vss', 'vss', s),
+    );
+    expect(t.stages.stages).toHaveLength(1);
+    expect(t.cell.nets[t.stages.stages[0].output!]).toBe('y');
+    expect(t.stages.stages[0].kind).toBe('clocked');
+  });
+});
+
 describe('stages in context', () => {
   it('a NAND2 whose parent ties one input high is an inverter in that context (the tied devices are constants)', () => {
     const cell = new CellBuilder('nand2', ['a', 'b', 'y', 'vdd', 'vss'])
