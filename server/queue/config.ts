@@ -26,7 +26,7 @@ export interface QueueSettings {
   stalledCheckMs: number;
   /** KEEPWELL_RECONCILE_SECONDS (60): how often a worker re-enqueues runs PostgreSQL holds as queued or running that the queue lost. */
   reconcileSeconds: number;
-  /** KEEPWELL_RECONCILE_GRACE_SECONDS (20): a run must be this old before the reconciler touches it (its submitter is still enqueueing it). */
+  /** KEEPWELL_RECONCILE_GRACE_SECONDS (5): a run must be untouched this long before the reconciler acts on it (its submitter may be enqueueing it, a plan adding its flow). */
   reconcileGraceSeconds: number;
   /** KEEPWELL_PROGRESS_MS (750): least time between two progress writes of a job. */
   progressMs: number;
@@ -47,7 +47,7 @@ export function loadQueueSettings(env: NodeJS.ProcessEnv = process.env): QueueSe
     KEEPWELL_JOB_LOCK_MS: int(30_000, 1000),
     KEEPWELL_STALLED_CHECK_MS: int(15_000, 500),
     KEEPWELL_RECONCILE_SECONDS: z.coerce.number().min(0.2).optional().transform((v) => v ?? 60),
-    KEEPWELL_RECONCILE_GRACE_SECONDS: z.coerce.number().min(0).optional().transform((v) => v ?? 20),
+    KEEPWELL_RECONCILE_GRACE_SECONDS: z.coerce.number().min(0).optional().transform((v) => v ?? 5),
     KEEPWELL_PROGRESS_MS: int(750, 0),
   });
   const parsed = schema.safeParse(env);

@@ -7,6 +7,7 @@ import { defaultDeck } from '../../rules/default-deck';
 import type { Role } from '../../shared/roles';
 import { Block, RuleDeck, RuleDeckVersion, Team, User } from '../db/models';
 import { hashPassword } from '../services/passwords';
+import { queueDemoRuns } from './demo-runs';
 
 export const DEMO_TEAM = 'Marrowgate Silicon · Lantern core';
 
@@ -31,7 +32,7 @@ export interface SeedResult {
 
 export async function seedDemo(sequelize: Sequelize): Promise<SeedResult> {
   const created: string[] = [];
-  return sequelize.transaction(async (transaction) => {
+  const result = await sequelize.transaction(async (transaction) => {
     const [team, teamCreated] = await Team.findOrCreate({ where: { name: DEMO_TEAM }, transaction });
     if (teamCreated) created.push(`team ${team.name}`);
 
@@ -91,6 +92,10 @@ export async function seedDemo(sequelize: Sequelize): Promise<SeedResult> {
     }
     return { teamId: team.id, created };
   });
+  // The demo netlists, stored and queued as runs of the demo designer (server/seed/demo-runs.ts).
+  const designer = await User.findOne({ where: { email: DEMO_USERS.find((u) => u.roles.includes('designer'))!.email } });
+  if (designer) result.created.push(...(await queueDemoRuns(sequelize, result.teamId, designer.id, DEMO_BLOCKS.map((b) => b.name))));
+  return result;
 }
 
 export function demoSignInText(publicUrl: string): string {

@@ -1,9 +1,11 @@
 // npm run seed: install the demo scenario (server/seed/demo.ts) into the configured database.
 
+import { QueryTypes } from 'sequelize';
 import { getConfig } from '../config';
 import { initModels } from '../db/models';
 import { createSequelize } from '../db/sequelize';
 import { demoSignInText, seedDemo } from './demo';
+import { drainWithWorker } from './demo-runs';
 
 async function main(): Promise<number> {
   const config = getConfig();
@@ -16,6 +18,14 @@ async function main(): Promise<number> {
   try {
     const result = await seedDemo(sequelize);
     process.stdout.write(result.created.length ? `seed: created ${result.created.join('; ')}\n` : 'seed: demo data already present\n');
+    const [{ open }] = await sequelize.query<{ open: number }>(`select cast(count(*) as integer) as open from runs where state in ('queued', 'running')`, {
+      type: QueryTypes.SELECT,
+    });
+    if (open > 0) {
+      process.stdout.write(`seed: checking ${open} queued run(s) with the worker\n`);
+      const code = await drainWithWorker();
+      if (code !== 0) process.stderr.write(`seed: the worker exited with code ${code}; the runs stay queued for the next worker\n`);
+    }
     process.stdout.write(demoSignInText(config.publicUrl) + '\n');
     return 0;
   } finally {

@@ -101,12 +101,12 @@ export interface SubmitInput {
   top?: string;
 }
 
-/** A queued run of a stored netlist set: the row first (PostgreSQL is the truth), then its job. */
-export async function submitRun(ctx: AppContext, actor: { id: string; teamId: string }, input: SubmitInput): Promise<RunView> {
+/** The run row of a stored netlist set, queued. PostgreSQL is the truth: a worker's reconciler enqueues any queued run the queue lacks. */
+export async function createQueuedRun(ctx: Pick<AppContext, 'sequelize'>, actor: { id: string; teamId: string }, input: SubmitInput): Promise<string> {
   const netlist = await getNetlist(actor.teamId, input.netlistId);
   const version = await versionForRun(actor.teamId, input.deckVersionId);
   if (!version) throw new HttpError(409, 'no-deck', 'The team has no published default deck version; publish one or name a version.');
-  const runId = await ctx.sequelize.transaction(async (transaction) => {
+  return ctx.sequelize.transaction(async (transaction) => {
     const [row] = await ctx.sequelize.query<{ id: string }>(
       `insert into runs (team_id, block_id, netlist_id, deck_version_id, submitted_by, state, progress, note, top_cell)
        values (:teamId, :blockId, :netlistId, :deckVersionId, :submittedBy, 'queued', :progress, :note, :top) returning id`,
@@ -138,6 +138,11 @@ export async function submitRun(ctx: AppContext, actor: { id: string; teamId: st
     );
     return row.id;
   });
+}
+
+/** A queued run of a stored netlist set: the row first, then its job. */
+export async function submitRun(ctx: AppContext, actor: { id: string; teamId: string }, input: SubmitInput): Promise<RunView> {
+  const runId = await createQueuedRun(ctx, actor, input);
   await enqueueRun(runQueue(ctx), settings(), runId);
   return getRun(ctx, actor.teamId, runId);
 }

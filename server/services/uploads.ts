@@ -108,7 +108,7 @@ export async function netlistView(netlist: Netlist, transaction?: Transaction): 
 
 /** Store (or find) the netlist set of an upload for a block of the actor's team. */
 export async function storeUpload(
-  ctx: AppContext,
+  ctx: Pick<AppContext, 'sequelize'> & { config: Pick<AppContext['config'], 'upload'> },
   actor: { id: string; teamId: string },
   blockId: string,
   incoming: IncomingFile[],

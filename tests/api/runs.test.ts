@@ -18,8 +18,9 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { readDesign } from '../../grammar/index';
 import { checkDesign } from '../../rules/engine';
 import { defaultDeck } from '../../rules/default-deck';
-import { RuleDeckVersion, Waiver } from '../../server/db/models';
-import { createTeam, signedInAs, startTestEnv, type TestEnv } from './helpers';
+import { Block, RuleDeckVersion, Team, User, Waiver } from '../../server/db/models';
+import { DEMO_TEAM, DEMO_USERS, seedDemo } from '../../server/seed/demo';
+import { createTeam, signIn, signedInAs, startTestEnv, type TestEnv } from './helpers';
 import { makeRunTeamSetup, nandBlock, startWorker, submitUpload, waitForRun, type WorkerProcess } from './runs-helpers';
 
 let env: TestEnv;
@@ -410,5 +411,31 @@ describe('runs', () => {
     }
     const elsewhere = await teamWith([['designer']]);
     expect((await agent.get(`/api/runs/${head.id}/compare/${elsewhere.block.id}`)).status).toBe(404);
+  });
+});
+
+describe('the demo seed', () => {
+  it('queues the demo netlists as runs that a worker finishes, with findings to look at', async () => {
+    await seedDemo(env.ctx.sequelize);
+    await seedDemo(env.ctx.sequelize); // idempotent: no second run of the same netlist
+    const team = (await Team.findOne({ where: { name: DEMO_TEAM } }))!;
+    const designer = DEMO_USERS.find((u) => u.roles.includes('designer'))!;
+    const user = (await User.findOne({ where: { email: designer.email } }))!;
+    const agent = await signIn(env, user.email, designer.password);
+    const listed = (await agent.get('/api/runs').expect(200)).body;
+    expect(listed.total).toBeGreaterThan(0);
+    expect(new Set(listed.items.map((r: { netlistId: string }) => r.netlistId)).size).toBe(listed.total);
+    for (const item of listed.items) {
+      const run = await waitForRun(agent, item.id, undefined, { timeoutMs: 60_000 });
+      expect(run.state, run.error ?? '').toBe('succeeded');
+      expect(run.submitter?.email).toBe(designer.email);
+    }
+    const blocks = await Block.findAll({ where: { teamId: team.id } });
+    expect(listed.items.every((r: { block: { id: string } }) => blocks.some((b) => b.id === r.block.id))).toBe(true);
+    // A first screen with results: the demo holds at least one error finding. The starter netlist's ratioed
+    // decoder has |gain| < 1 at its switching threshold, so it cannot restore a level (the trade's rule).
+    let total = 0;
+    for (const item of listed.items) total += (await agent.get(`/api/runs/${item.id}/findings`).query({ severity: 'error' }).expect(200)).body.total;
+    expect(total).toBeGreaterThan(0);
   });
 });

@@ -116,7 +116,7 @@ describe('a Redis restart during queued runs', () => {
     expect(runs.map((r) => r.state)).toEqual(Array(5).fill('succeeded'));
     // Run i has cells 0..i oversized: i + 1 implausible-size errors (nandBlock's construction).
     runs.forEach((r, i) => expect(r.summary?.errors).toBe(i + 1));
-    expect(worker.output()).toMatch(/reconciler: re-enqueued [1-5] run/);
+    expect(worker.output()).toMatch(/reconciler: re-enqueued \d+ run/);
     const executions = await executionsOf(env, ids);
     expect(executions.map((e) => e.outcome)).toEqual(Array(5).fill('succeeded'));
   });
