@@ -19,7 +19,7 @@
 import type { Cell, ModelCard, RailKind } from '../../grammar/design';
 import type { Corner } from '../../shared/deck';
 import type { CircuitElement, Network } from './network';
-import { GROUND_END, mapNetwork, NetworkEvaluator, networkElements, networkNodes, POWER_END } from './network';
+import { GROUND_END, mapNetwork, NetworkEvaluator, networkElements, POWER_END } from './network';
 import { ModelResolver } from './parameters';
 
 export interface ElementRef {
@@ -235,8 +235,7 @@ export function driveCurrent(input: DriveInput, network: Network, va: number, vb
     const bulk = br ? (br === 'power' ? 1 : 0) : m.polarity === 'n' ? 0 : 1;
     return { kind: 'mos', model: resolved.model, beta: (resolved.model.kPrime * m.w * m.m) / m.l, gate: m.polarity === 'n' ? 1 : 0, bulk };
   });
-  for (const x of networkNodes(mapped)) if (x > next) next = x + 1;
-  const v = new Float64Array(next + 1);
+  const v = new Float64Array(next);
   v[1] = corner.vdd;
   v[A] = va;
   v[B] = vb;

@@ -46,6 +46,7 @@ export interface StageCircuit {
 
 export interface TransferResult {
   vdd: number;
+  /** The sampled curve (finely near the threshold), for plots. */
   vin: number[];
   vout: number[];
   inverting: boolean;
@@ -67,7 +68,9 @@ export interface TransferResult {
 }
 
 export interface TransferOptions {
-  /** Uniform intervals before refinement. */
+  /** Uniform intervals of the coarse grid that brackets the threshold and the unity-gain points. */
+  bracketIntervals?: number;
+  /** Uniform intervals of the plotted curve before refinement. */
   gridIntervals?: number;
   /** Refine an interval while its output step exceeds this fraction of VDD. */
   maxStepFraction?: number;
@@ -134,14 +137,10 @@ export class TransferSolver {
   }
 }
 
-export function analyseTransfer(circuit: StageCircuit, options: TransferOptions = {}): TransferResult {
-  const solver = new TransferSolver(circuit);
-  const vdd = circuit.vdd;
-  const intervals = options.gridIntervals ?? 24;
-  const maxStep = (options.maxStepFraction ?? 1 / 24) * vdd;
-  const maxPoints = options.maxPoints ?? 200;
+/** Sample the curve on a uniform grid, refined where the output moves fast (the threshold region). */
+function sampleCurve(solver: TransferSolver, intervals: number, maxStep: number, maxPoints: number): { vin: number[]; vout: number[] } {
+  const vdd = solver.circuit.vdd;
   const minWidth = vdd / 8192;
-
   const vin: number[] = [];
   const vout: number[] = [];
   for (let i = 0; i <= intervals; i++) {
@@ -149,7 +148,6 @@ export function analyseTransfer(circuit: StageCircuit, options: TransferOptions 
     vin.push(x);
     vout.push(solver.vout(x));
   }
-  // Refine where the curve moves fast, so the threshold region is sampled finely.
   for (let pass = 0; pass < 12 && vin.length < maxPoints; pass++) {
     let changed = false;
     for (let i = vin.length - 2; i >= 0 && vin.length < maxPoints; i--) {
@@ -162,105 +160,156 @@ export function analyseTransfer(circuit: StageCircuit, options: TransferOptions 
     }
     if (!changed) break;
   }
-  const n = vin.length;
-  // Exact slopes at grid points only where a search needs them.
-  const exact = new Float64Array(n).fill(NaN);
-  const slopeAtPoint = (i: number) => {
-    if (Number.isNaN(exact[i])) exact[i] = solver.slope(vin[i], vout[i]);
-    return exact[i];
-  };
-  // Secant slopes of the grid, between points i and i + 1: enough to find where the curve is steepest.
-  const secant = (i: number) => (vout[i + 1] - vout[i]) / (vin[i + 1] - vin[i]);
-  const inverting = vout[0] >= vout[n - 1];
-  const voh = Math.max(vout[0], vout[n - 1]);
-  const vol = Math.min(vout[0], vout[n - 1]);
+  return { vin, vout };
+}
 
-  // Switching threshold: Vout = Vin. The balance with output tied to input has the sign of Vout(V) − V.
-  let vm: number | null = null;
-  let vmOut = 0;
-  let vmDefinition: TransferResult['vmDefinition'] = 'vout-equals-vin';
-  let bestGain = -1;
-  const railMargin = 1e-3 * vdd;
-  for (let i = 0; i < n - 1; i++) {
-    const d0 = vout[i] - vin[i];
-    const d1 = vout[i + 1] - vin[i + 1];
-    if (d0 === 0 || (d0 > 0) !== (d1 > 0)) {
-      const x = d0 === 0 ? vin[i] : brent((y) => solver.balance(y, y), vin[i], vin[i + 1], 1e-12);
-      // A non-inverting stage that passes a rail (a follower at 0 V) meets Vout = Vin there: not a switching threshold.
-      if (x < railMargin || x > vdd - railMargin) continue;
-      const g = Math.abs(secant(i));
-      if (g > bestGain) {
-        bestGain = g;
-        vm = x;
-        vmOut = x;
+/**
+ * The analysis of one stage circuit. The figures the rules use (VM, gain, VIL, VIH, VOH, VOL,
+ * margins) are solved at once from a coarse bracketing grid; the finely sampled curve and the
+ * peak gain, which only plots and reports read, are computed the first time they are asked for.
+ */
+class TransferAnalysis implements TransferResult {
+  readonly vdd: number;
+  readonly inverting: boolean;
+  readonly vm: number;
+  readonly vmDefinition: TransferResult['vmDefinition'];
+  readonly gainAtVm: number;
+  readonly vil: number | null;
+  readonly vih: number | null;
+  readonly voh: number;
+  readonly vol: number;
+  readonly nmh: number | null;
+  readonly nml: number | null;
+  private sampled: { vin: number[]; vout: number[]; maxGain: number; maxGainAt: number } | null = null;
+
+  constructor(
+    private readonly circuit: StageCircuit,
+    private readonly options: TransferOptions,
+  ) {
+    const solver = new TransferSolver(circuit);
+    const vdd = circuit.vdd;
+    this.vdd = vdd;
+    // Coarse grid: brackets for the threshold and the unity-gain points.
+    const { vin, vout } = sampleCurve(solver, options.bracketIntervals ?? 8, vdd, 0);
+    const n = vin.length;
+    const exact = new Float64Array(n).fill(NaN);
+    const slopeAtPoint = (i: number) => {
+      if (Number.isNaN(exact[i])) exact[i] = solver.slope(vin[i], vout[i]);
+      return exact[i];
+    };
+    const secant = (i: number) => (vout[i + 1] - vout[i]) / (vin[i + 1] - vin[i]);
+    this.inverting = vout[0] >= vout[n - 1];
+    this.voh = Math.max(vout[0], vout[n - 1]);
+    this.vol = Math.min(vout[0], vout[n - 1]);
+
+    // Switching threshold: Vout = Vin. The balance with output tied to input has the sign of Vout(V) − V.
+    let vm: number | null = null;
+    let vmOut = 0;
+    let vmDefinition: TransferResult['vmDefinition'] = 'vout-equals-vin';
+    let bestGain = -1;
+    const railMargin = 1e-3 * vdd;
+    for (let i = 0; i < n - 1; i++) {
+      const d0 = vout[i] - vin[i];
+      const d1 = vout[i + 1] - vin[i + 1];
+      if (d0 === 0 || (d0 > 0) !== (d1 > 0)) {
+        const x = d0 === 0 ? vin[i] : brent((y) => solver.balance(y, y), vin[i], vin[i + 1], 1e-12);
+        // A non-inverting stage that passes a rail (a follower at 0 V) meets Vout = Vin there: not a switching threshold.
+        if (x < railMargin || x > vdd - railMargin) continue;
+        const g = Math.abs(secant(i));
+        if (g > bestGain) {
+          bestGain = g;
+          vm = x;
+          vmOut = x;
+        }
       }
     }
-  }
-  if (vm === null) {
-    vmDefinition = 'mid-swing';
-    const mid = 0.5 * (voh + vol);
-    let i = 0;
-    while (i < n - 2 && (vout[i] - mid > 0) === (vout[i + 1] - mid > 0)) i++;
-    vm = brent((x) => solver.vout(x) - mid, vin[i], vin[i + 1], 1e-12);
-    vmOut = solver.vout(vm);
-  }
-  const gainAtVm = solver.slope(vm, vmOut);
-
-  // Unity-gain points nearest the threshold on either side.
-  const excess = (x: number) => Math.abs(solver.slopeAt(x)) - 1;
-  let vil: number | null = null;
-  let vih: number | null = null;
-  if (Math.abs(gainAtVm) > 1) {
-    // Walk out from VM over the grid to the first point whose gain magnitude is at most one.
-    let below = 0;
-    while (below < n - 1 && vin[below + 1] < vm) below++;
-    let right = vm;
-    for (let j = below; j >= 0; j--) {
-      if (vin[j] >= vm) continue;
-      if (Math.abs(slopeAtPoint(j)) <= 1) {
-        vil = brent(excess, vin[j], right, 1e-7);
-        break;
-      }
-      right = vin[j];
+    if (vm === null) {
+      vmDefinition = 'mid-swing';
+      const mid = 0.5 * (this.voh + this.vol);
+      let i = 0;
+      while (i < n - 2 && (vout[i] - mid > 0) === (vout[i + 1] - mid > 0)) i++;
+      vm = brent((x) => solver.vout(x) - mid, vin[i], vin[i + 1], 1e-12);
+      vmOut = solver.vout(vm);
     }
-    let left = vm;
-    for (let j = below + 1; j < n; j++) {
-      if (vin[j] <= vm) continue;
-      if (Math.abs(slopeAtPoint(j)) <= 1) {
-        vih = brent(excess, left, vin[j], 1e-7);
-        break;
+    this.vm = vm;
+    this.vmDefinition = vmDefinition;
+    this.gainAtVm = solver.slope(vm, vmOut);
+
+    // Unity-gain points nearest the threshold on either side: walk out from VM to the first grid point with gain at most one.
+    const excess = (x: number) => Math.abs(solver.slopeAt(x)) - 1;
+    let vil: number | null = null;
+    let vih: number | null = null;
+    if (Math.abs(this.gainAtVm) > 1) {
+      let below = 0;
+      while (below < n - 1 && vin[below + 1] < vm) below++;
+      let right = vm;
+      for (let j = below; j >= 0; j--) {
+        if (vin[j] >= vm) continue;
+        if (Math.abs(slopeAtPoint(j)) <= 1) {
+          vil = brent(excess, vin[j], right, 1e-7);
+          break;
+        }
+        right = vin[j];
       }
-      left = vin[j];
+      let left = vm;
+      for (let j = below + 1; j < n; j++) {
+        if (vin[j] <= vm) continue;
+        if (Math.abs(slopeAtPoint(j)) <= 1) {
+          vih = brent(excess, left, vin[j], 1e-7);
+          break;
+        }
+        left = vin[j];
+      }
     }
+    this.vil = vil;
+    this.vih = vih;
+    this.nmh = vih === null ? null : this.voh - vih;
+    this.nml = vil === null ? null : vil - this.vol;
   }
 
-  let peak = 0;
-  for (let i = 1; i < n - 1; i++) if (Math.abs(secant(i)) > Math.abs(secant(peak))) peak = i;
-  const lo = vin[Math.max(peak - 1, 0)];
-  const hi = vin[Math.min(peak + 2, n - 1)];
-  const refined = goldenMax((x) => Math.abs(solver.slopeAt(x)), lo, hi, 1e-4 * vdd);
-  let maxGainAt = refined.x;
-  let maxGain = solver.slopeAt(refined.x);
-  if (Math.abs(gainAtVm) > Math.abs(maxGain)) {
-    maxGain = gainAtVm;
-    maxGainAt = vm;
+  get vin(): number[] {
+    return this.sample().vin;
+  }
+  get vout(): number[] {
+    return this.sample().vout;
+  }
+  get maxGain(): number {
+    return this.sample().maxGain;
+  }
+  get maxGainAt(): number {
+    return this.sample().maxGainAt;
   }
 
-  return {
-    vdd,
-    vin,
-    vout,
-    inverting,
-    vm,
-    vmDefinition,
-    gainAtVm,
-    maxGain,
-    maxGainAt,
-    vil,
-    vih,
-    voh,
-    vol,
-    nmh: vih === null ? null : voh - vih,
-    nml: vil === null ? null : vil - vol,
-  };
+  private sample() {
+    if (this.sampled) return this.sampled;
+    const solver = new TransferSolver(this.circuit);
+    const vdd = this.vdd;
+    const { vin, vout } = sampleCurve(
+      solver,
+      this.options.gridIntervals ?? 24,
+      (this.options.maxStepFraction ?? 1 / 24) * vdd,
+      this.options.maxPoints ?? 200,
+    );
+    const n = vin.length;
+    // The steepest secant of the fine grid, refined by golden-section search on the exact slope.
+    let peak = 0;
+    for (let i = 1; i < n - 1; i++) {
+      if (Math.abs((vout[i + 1] - vout[i]) / (vin[i + 1] - vin[i])) > Math.abs((vout[peak + 1] - vout[peak]) / (vin[peak + 1] - vin[peak]))) peak = i;
+    }
+    const lo = vin[Math.max(peak - 1, 0)];
+    const hi = vin[Math.min(peak + 2, n - 1)];
+    const refined = goldenMax((x) => Math.abs(solver.slopeAt(x)), lo, hi, 1e-4 * vdd);
+    let maxGainAt = refined.x;
+    let maxGain = solver.slopeAt(refined.x);
+    if (Math.abs(this.gainAtVm) > Math.abs(maxGain)) {
+      maxGain = this.gainAtVm;
+      maxGainAt = this.vm;
+    }
+    this.sampled = { vin, vout, maxGain, maxGainAt };
+    return this.sampled;
+  }
+}
+
+export function analyseTransfer(circuit: StageCircuit, options: TransferOptions = {}): TransferResult {
+  return new TransferAnalysis(circuit, options);
 }

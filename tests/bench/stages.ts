@@ -7,12 +7,11 @@
 // Run alone with `npx tsx tests/bench/stages.ts [transistors]`, or from `npm run bench`.
 
 import { pathToFileURL } from 'node:url';
-import { checkDesign } from '../../rules/engine';
+import { checkDesign, localRails } from '../../rules/engine';
 import { defaultDeck } from '../../rules/default-deck';
 import nonRegenerative from '../../rules/stage/non-regenerative';
 import noiseMargin from '../../rules/stage/noise-margin';
 import { analysisStats, extractStages, stageAnalysesOf, stagesOf } from '../../rules/stages';
-import { localRails } from '../../rules/engine';
 import { defineRule, type RuleModule } from '../../rules/types';
 import { z } from 'zod';
 import { CellBuilder, designOf } from '../support/cell-builder';
