@@ -7,7 +7,7 @@
 
 import { screen, waitFor, within } from '@testing-library/react';
 import userEvent from '@testing-library/user-event';
-import { describe, expect, it, vi } from 'vitest';
+import { afterEach, describe, expect, it, vi } from 'vitest';
 import { findingsQuerySchema } from '../../shared/api/runs';
 import type { NetlistEditorProps } from '../../src/features/editor';
 import { users } from './fixtures';
@@ -31,6 +31,8 @@ vi.mock('../../src/features/editor', () => ({
 }));
 
 const findingsPath = `/api/runs/${RUN_ID}/findings`;
+
+afterEach(() => window.localStorage.clear());
 
 /** The table's own requests (not the editor's per-file ones), as the server would read them. */
 function tableQueries(api: FakeApi) {
@@ -135,8 +137,11 @@ describe('findings table', () => {
     await user.click(screen.getByRole('checkbox', { name: 'Nets' }));
     expect(screen.getByRole('columnheader', { name: 'Nets' })).toBeInTheDocument();
     expect(screen.getAllByText('dyn, mid, foot').length).toBeGreaterThan(0);
-    await user.click(screen.getByRole('checkbox', { name: 'Instances' }));
-    expect(screen.queryByRole('columnheader', { name: /Instances/ })).not.toBeInTheDocument();
+    expect(screen.getByRole('columnheader', { name: /Location/ })).toBeInTheDocument();
+    await user.click(screen.getByRole('checkbox', { name: 'Location' }));
+    expect(screen.queryByRole('columnheader', { name: /Location/ })).not.toBeInTheDocument();
+    // The choice is kept in this browser for the next run opened.
+    expect(JSON.parse(window.localStorage.getItem('keepwell.findings.columns')!)).toMatchObject({ nets: true, location: false });
   });
 });
 

@@ -40,7 +40,8 @@ export const COLUMN_LABELS: Record<FindingColumnId, string> = {
   status: 'Status',
 };
 
-export const DEFAULT_COLUMNS: VisibilityState = { nets: false, devices: false, corner: false, limit: false };
+/** Shown until the reader chooses otherwise: enough to tell findings apart at 1280 px beside the detail. */
+export const DEFAULT_COLUMNS: VisibilityState = { instances: false, limit: false, nets: false, devices: false, corner: false, status: false };
 
 const SORTABLE: ReadonlySet<string> = new Set<FindingSort>(['severity', 'rule', 'cell', 'location', 'instances']);
 
@@ -57,7 +58,17 @@ function names(list: string[]) {
 
 function buildColumns(rules: Map<string, RuleCatalogueEntry> | undefined): ColumnDef<StoredFinding, any>[] {
   const columns: ColumnDef<StoredFinding, any>[] = [
-    { id: 'severity', header: COLUMN_LABELS.severity, accessorKey: 'severity', cell: ({ row }) => <ToneBadge tone={row.original.severity} /> },
+    {
+      id: 'severity',
+      header: COLUMN_LABELS.severity,
+      accessorKey: 'severity',
+      cell: ({ row }) => (
+        <span className="flex flex-col items-start gap-1">
+          <ToneBadge tone={row.original.severity} />
+          {row.original.status === 'waived' && <ToneBadge tone="waived" />}
+        </span>
+      ),
+    },
     {
       id: 'rule',
       header: COLUMN_LABELS.rule,

@@ -219,10 +219,6 @@ export function RunPage() {
               ))}
             {tab === 'compare' && <RunCompare run={r} />}
           </div>
-          <p className="mt-8 flex items-start gap-1.5 text-xs text-ink-600">
-            <ToneGlyph tone="info" size={11} className="mt-0.5" />
-            {r.caution}
-          </p>
         </>
       ) : r.state === 'cancelled' ? (
         <EmptyState title="This run was cancelled" illustration="well" steps={['Submit the netlist again from the block’s page when you want it checked.']}>

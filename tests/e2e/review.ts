@@ -1,0 +1,364 @@
+// The review journey in a real browser (Debian's Chromium through playwright-core, nothing
+// allowed off the machine): sign in as the demo designer, open a finished run of the demo,
+// select a dynamic-node finding and see the editor scrolled to and highlighting its device's
+// line (the highlighted line number must equal the finding's line), go from an instance to its
+// subcircuit, and open the chain plot. Screenshots land in test-artifacts/review/.
+//
+//   npx tsx tests/e2e/review.ts
+//       starts its own Keepwell: the project's PostgreSQL and Redis, a fresh database with the
+//       demo seed, the client build, the web server and the worker on free ports; removes the
+//       database and its Redis keys afterwards.
+//   KEEPWELL_URL=http://127.0.0.1:5180 npx tsx tests/e2e/review.ts
+//       against a running `npm start` (the demo database; it may add a run to the demo).
+//
+// When no finished demo run has a dynamic-node finding, the journey uploads the invented
+// netlist set of ./review-netlists.ts through the API and waits for its run.
+
+import { spawn, type ChildProcess } from 'node:child_process';
+import crypto from 'node:crypto';
+import net from 'node:net';
+import path from 'node:path';
+import pg from 'pg';
+import { Redis } from 'ioredis';
+import type { Locator, Page } from 'playwright-core';
+import { build } from 'vite';
+import type { RuleCatalogueEntry } from '../../shared/api/decks';
+import type { RunDetail, RunView, StoredFinding } from '../../shared/api/runs';
+import { loadConfig, repoRoot } from '../../server/config';
+import { runMigrations } from '../../server/db/migrate';
+import { initModels } from '../../server/db/models';
+import { createSequelize } from '../../server/db/sequelize';
+import { startServices } from '../../server/dev/services';
+import { DEMO_BLOCKS, DEMO_USERS, seedDemo } from '../../server/seed/demo';
+import { launchBrowser, openPage, screenshot, type GuardedPage } from '../support/browser';
+import { NETLIST_SET } from './review-netlists';
+
+const problems: string[] = [];
+function check(ok: boolean, what: string) {
+  console.log(`${ok ? '  ok  ' : '  FAIL'} ${what}`);
+  if (!ok) problems.push(what);
+  return ok;
+}
+const say = (line: string) => console.log(`review: ${line}`);
+
+// ------------------------------------------------------------------ a Keepwell of its own
+
+function freePort(): Promise<number> {
+  return new Promise((resolve, reject) => {
+    const server = net.createServer();
+    server.once('error', reject);
+    server.listen(0, '127.0.0.1', () => {
+      const { port } = server.address() as net.AddressInfo;
+      server.close(() => resolve(port));
+    });
+  });
+}
+
+async function waitForHealth(url: string, children: ChildProcess[], timeoutMs = 90_000) {
+  const deadline = Date.now() + timeoutMs;
+  while (Date.now() < deadline) {
+    const dead = children.find((c) => c.exitCode !== null);
+    if (dead) throw new Error(`a Keepwell process exited (code ${dead.exitCode})`);
+    try {
+      if ((await fetch(`${url}/api/health`)).ok) return;
+    } catch {
+      // not listening yet
+    }
+    await new Promise((r) => setTimeout(r, 300));
+  }
+  throw new Error(`no answer from ${url}/api/health within ${timeoutMs / 1000} s`);
+}
+
+async function startKeepwell(): Promise<{ base: string; stop: () => Promise<void> }> {
+  const config = loadConfig({ ...process.env, NODE_ENV: 'development' });
+  say('starting PostgreSQL and Redis');
+  await startServices(config);
+
+  const tag = crypto.randomBytes(4).toString('hex');
+  const database = `keepwell_e2e_${tag}`;
+  const admin = new pg.Client({ connectionString: config.databaseUrl });
+  await admin.connect();
+  await admin.query(`create database ${database}`);
+  await admin.end();
+  const databaseUrl = Object.assign(new URL(config.databaseUrl), { pathname: `/${database}` }).toString();
+  const sequelize = createSequelize({ databaseUrl, dbPoolMax: 2 });
+  initModels(sequelize);
+  try {
+    await runMigrations(sequelize, databaseUrl);
+    await seedDemo(sequelize);
+  } finally {
+    await sequelize.close();
+  }
+  say(`database ${database} migrated and seeded`);
+
+  say('building the client');
+  await build({ configFile: path.join(repoRoot, 'vite.config.ts'), logLevel: 'warn' });
+
+  const port = await freePort();
+  const base = `http://127.0.0.1:${port}`;
+  // Redis database 2 and a prefix of its own: neither a developer's server (0) nor the API tests (1) see these keys.
+  const redisUrl = `redis://127.0.0.1:${config.redisPort}/2`;
+  const redisPrefix = `keepwell-e2e-${tag}:`;
+  const env = {
+    ...process.env,
+    NODE_ENV: 'development',
+    DATABASE_URL: databaseUrl,
+    REDIS_URL: redisUrl,
+    KEEPWELL_REDIS_PREFIX: redisPrefix,
+    KEEPWELL_PORT: String(port),
+    PUBLIC_URL: base,
+    SMTP_PORT: String(await freePort()),
+    KEEPWELL_DATA_DIR: path.join(repoRoot, 'test-artifacts', 'review', 'data'),
+    KEEPWELL_LOG_REQUESTS: 'false',
+  };
+  const tsx = path.join(repoRoot, 'node_modules', '.bin', 'tsx');
+  const children = ['server/main.ts', 'server/worker/main.ts'].map((entry) => spawn(tsx, [entry], { cwd: repoRoot, env, stdio: ['ignore', 'inherit', 'inherit'] }));
+  await waitForHealth(base, children);
+  say(`Keepwell at ${base}`);
+
+  return {
+    base,
+    stop: async () => {
+      for (const child of children) if (child.exitCode === null) child.kill('SIGTERM');
+      await Promise.all(children.map((c) => (c.exitCode !== null ? null : new Promise((r) => c.once('exit', r)))));
+      const client = new pg.Client({ connectionString: config.databaseUrl });
+      await client.connect();
+      await client.query(`drop database if exists ${database} with (force)`);
+      await client.end();
+      const redis = new Redis(redisUrl, { maxRetriesPerRequest: 1 });
+      let cursor = '0';
+      do {
+        const [next, keys] = await redis.scan(cursor, 'MATCH', `${redisPrefix}*`, 'COUNT', 500);
+        if (keys.length) await redis.del(...keys);
+        cursor = next;
+      } while (cursor !== '0');
+      redis.disconnect();
+    },
+  };
+}
+
+// ------------------------------------------------------------------ the API, as the signed-in page
+
+async function apiGet<T>(page: Page, url: string): Promise<T> {
+  const res = await page.request.get(url);
+  if (!res.ok()) throw new Error(`GET ${url}: ${res.status()} ${await res.text()}`);
+  return (await res.json()) as T;
+}
+
+/** A finding of one of `ruleIds` in one of `runs`, preferring one that names devices. */
+async function findingIn(page: Page, runs: RunView[], ruleIds: string[]): Promise<{ run: RunView; finding: StoredFinding } | null> {
+  for (const run of runs) {
+    const found = await apiGet<{ items: StoredFinding[] }>(page, `/api/runs/${run.id}/findings?rule=${ruleIds.join(',')}&pageSize=50`);
+    const finding = found.items.find((f) => f.devices.length > 0) ?? found.items[0];
+    if (finding) return { run, finding };
+  }
+  return null;
+}
+
+/** A finished run of the demo with a finding of one of `ruleIds`, or null. */
+async function findDemoRun(page: Page, ruleIds: string[]): Promise<{ run: RunView; finding: StoredFinding } | null> {
+  const { items: blocks } = await apiGet<{ items: { id: string; name: string }[] }>(page, '/api/blocks');
+  for (const block of blocks) {
+    const runs = await apiGet<{ items: RunView[] }>(page, `/api/runs?blockId=${block.id}&state=succeeded&pageSize=50`);
+    const found = await findingIn(page, runs.items, ruleIds);
+    if (found) return found;
+  }
+  return null;
+}
+
+async function uploadDemoNetlist(page: Page, base: string): Promise<RunView> {
+  const { items: blocks } = await apiGet<{ items: { id: string; name: string }[] }>(page, '/api/blocks');
+  const block = blocks.find((b) => b.name === 'lantern-tag-compare') ?? blocks.find((b) => DEMO_BLOCKS.some((d) => d.name === b.name)) ?? blocks[0];
+  const form = new FormData();
+  form.set('blockId', block.id);
+  form.set('note', 'Uploaded by the review journey (tests/e2e/review.ts).');
+  for (const file of NETLIST_SET) form.append('files', new Blob([file.text], { type: 'text/plain' }), file.path);
+  const res = await page.request.post('/api/runs', { multipart: form, headers: { Origin: base } });
+  if (!res.ok()) throw new Error(`POST /api/runs: ${res.status()} ${await res.text()}`);
+  const { run } = (await res.json()) as { run: RunView };
+  const deadline = Date.now() + 180_000;
+  for (;;) {
+    const now = await apiGet<RunView>(page, `/api/runs/${run.id}`);
+    if (now.state === 'succeeded') return now;
+    if (now.state === 'failed' || now.state === 'cancelled') throw new Error(`the uploaded run ${now.state}: ${now.error ?? ''}`);
+    if (Date.now() > deadline) throw new Error(`the uploaded run is still ${now.state} after 3 minutes`);
+    await new Promise((r) => setTimeout(r, 1000));
+  }
+}
+
+// ------------------------------------------------------------------ reading Monaco's DOM
+
+/**
+ * Line numbers of the rendered lines carrying a decoration class, matched by vertical position
+ * to the gutter's numbers. (No helper functions inside: tsx would wrap them in a `__name` the
+ * page does not have.)
+ */
+async function decoratedLines(editor: Locator, className: string): Promise<number[]> {
+  return editor.evaluate((root, cls) => {
+    const numbers = new Map<string, number>();
+    for (const n of root.querySelectorAll('.margin-view-overlays .line-numbers')) {
+      numbers.set((n.closest('.margin-view-overlays > div') as HTMLElement | null)?.style.top ?? '', Number(n.textContent));
+    }
+    const lines: number[] = [];
+    for (const d of root.querySelectorAll(`.view-overlays .${cls}`)) {
+      lines.push(numbers.get((d.closest('.view-overlays > div') as HTMLElement | null)?.style.top ?? '') ?? NaN);
+    }
+    return lines;
+  }, className);
+}
+
+/** The line number the cursor is on, from the gutter's active-line mark. */
+async function cursorLine(editor: Locator): Promise<number> {
+  return editor.evaluate((root) => Number(root.querySelector('.margin-view-overlays .line-numbers.active-line-number')?.textContent ?? NaN));
+}
+
+function clean(g: GuardedPage, step: string) {
+  const errors = g.errors.filter((e) => !(/status of 401/.test(e.text) && /\/api\/auth\/(me|login)$/.test(e.url)));
+  check(errors.length === 0, `${step}: no page errors${errors.length ? ` (${errors.map((e) => `${e.text} [${e.url}]`).join(' | ')})` : ''}`);
+  check(g.remoteRequests.length === 0, `${step}: nothing fetched from outside the machine${g.remoteRequests.length ? ` (${g.remoteRequests.join(', ')})` : ''}`);
+}
+
+// ------------------------------------------------------------------ the journey
+
+async function journey(base: string) {
+  const designer = DEMO_USERS.find((u) => u.roles.includes('designer'))!;
+  const browser = await launchBrowser();
+  try {
+    const guarded = await openPage(browser, { baseURL: base, width: 1440, height: 960 });
+    const { page } = guarded;
+
+    await page.goto('/sign-in');
+    await page.getByLabel('E-mail address').fill(designer.email);
+    await page.getByLabel('Password').fill(designer.password);
+    await page.getByRole('button', { name: 'Sign in' }).click();
+    await page.waitForURL((u) => !u.pathname.startsWith('/sign-in'));
+    check(true, `signed in as the demo designer ${designer.name}`);
+
+    const { items: catalogue } = await apiGet<{ items: RuleCatalogueEntry[] }>(page, '/api/rules');
+    const dynamicRules = catalogue.filter((r) => r.area === 'dynamic').map((r) => r.id);
+    if (!check(dynamicRules.length > 0, `the rule catalogue has dynamic-node rules (${dynamicRules.join(', ') || 'none'})`)) return;
+
+    let found = await findDemoRun(page, dynamicRules);
+    if (!found) {
+      say('no finished demo run has a dynamic-node finding: uploading the demo netlist set through the API');
+      const run = await uploadDemoNetlist(page, base);
+      found = await findingIn(page, [run], dynamicRules);
+      check(found !== null, 'the uploaded run finished with a dynamic-node finding');
+      if (!found) return;
+    }
+    const { run, finding } = found;
+    const detail = await apiGet<RunDetail>(page, `/api/runs/${run.id}`);
+    say(`run ${run.id} of ${run.block.name}; finding ${finding.id} (${finding.ruleId}) at ${finding.file}:${finding.line}`);
+
+    // Open the run, narrow the table to the dynamic rules, choose the finding with the keyboard.
+    await page.goto(`/runs/${run.id}?tab=findings&rule=${encodeURIComponent(finding.ruleId)}`);
+    const row = page.locator(`tr[data-finding-id="${finding.id}"]`);
+    await row.waitFor({ timeout: 20_000 });
+    await page.locator('tr[data-finding-id]').first().focus();
+    const position = await page.locator('tr[data-finding-id]').evaluateAll((rows, id) => rows.findIndex((r) => r.getAttribute('data-finding-id') === id), String(finding.id));
+    for (let i = 0; i < position; i++) await page.keyboard.press('j');
+    await page.keyboard.press('Enter');
+    await page.waitForURL((u) => u.searchParams.get('finding') === String(finding.id));
+    check(true, 'the finding was chosen with j and Enter, and its id is in the address');
+    const aside = page.getByRole('complementary', { name: 'Selected finding' });
+    await aside.getByText(finding.message).waitFor();
+    check(await aside.getByText('Not waived.').isVisible(), 'the detail shows the waiver state');
+
+    const editor = page.locator('.monaco-editor').first();
+    await editor.waitFor({ timeout: 30_000 });
+    await page.locator('.view-overlays .kw-line-focus').first().waitFor({ timeout: 20_000 });
+    await page.waitForTimeout(600); // the smooth scroll to the line
+    const focused = await decoratedLines(editor, 'kw-line-focus');
+    check(focused.length === 1 && focused[0] === finding.line, `the editor highlights line ${focused.join(', ')} — the finding’s line is ${finding.line}`);
+    const text = (await apiGet<{ text: string }>(page, `/api/runs/${run.id}/file?path=${encodeURIComponent(finding.file)}`)).text;
+    const lineText = text.split(/\r\n|\r|\n/)[finding.line - 1] ?? '';
+    const element = lineText.trim().split(/\s+/)[0] ?? '';
+    check(finding.devices.some((d) => d.toLowerCase() === element.toLowerCase()), `line ${finding.line} is the line of device ${element}, which the finding names (${finding.devices.join(', ')})`);
+    const box = await page.locator('.view-overlays .kw-line-focus').first().boundingBox();
+    const frame = await editor.boundingBox();
+    check(Boolean(box && frame && box.y >= frame.y && box.y + box.height <= frame.y + frame.height), 'the highlighted line is scrolled into the editor’s view');
+    const marks = await page.locator('.kw-glyph').count();
+    check(marks > 0, `the gutter marks the file’s findings (${marks} marks rendered)`);
+    await page.getByRole('heading', { name: 'Netlist' }).scrollIntoViewIfNeeded();
+    say(`screenshot ${path.relative(repoRoot, await screenshot(page, 'dynamic-finding', { folder: 'review' }))}`);
+
+    // Go to definition (F12) from the file's first instance line to the .subckt it names, in whichever file defines it.
+    const lines = text.split(/\r\n|\r|\n/);
+    const files = await Promise.all(detail.files.map(async (f) => ({ path: f.path, text: (await apiGet<{ text: string }>(page, `/api/runs/${run.id}/file?path=${encodeURIComponent(f.path)}`)).text })));
+    const definitionOf = (cell: string) =>
+      files.flatMap((f) => f.text.split(/\r\n|\r|\n/).map((l, i) => ({ path: f.path, line: i + 1, l }))).find((x) => {
+        const m = /^\s*\.subckt\s+(\S+)/i.exec(x.l);
+        return m !== null && m[1].toLowerCase() === cell.toLowerCase();
+      });
+    const instances = lines
+      .map((l, i) => ({ l, i }))
+      .filter(({ l }) => /^x/i.test(l))
+      .map(({ l, i }) => {
+        const words = l.split(/\s+/);
+        const slash = words.findIndex((w) => w.startsWith('/'));
+        const positional = words.filter((w) => !w.includes('='));
+        const cell = slash > 0 ? words[slash].slice(1) || words[slash + 1] : positional[positional.length - 1];
+        return { instance: i, cell, column: l.indexOf(cell, l.indexOf(' ')) + 1, target: definitionOf(cell) };
+      })
+      .filter((x) => x.target);
+    // Prefer an instance whose subcircuit lives in another file, to see the editor switch files.
+    const chosen = instances.find((x) => x.target!.path !== finding.file) ?? instances[0];
+    if (check(Boolean(chosen), `the finding’s file has an instance of a subcircuit defined in the run${chosen ? ` (${chosen.cell}, line ${chosen.instance + 1})` : ''}`)) {
+      const { instance, cell, column, target } = chosen;
+      await editor.locator('.view-lines').click();
+      await page.keyboard.press('Control+Home');
+      for (let i = 0; i < instance; i++) await page.keyboard.press('ArrowDown');
+      await page.keyboard.press('Home');
+      for (let i = 1; i < column + 1; i++) await page.keyboard.press('ArrowRight');
+      await page.keyboard.press('F12');
+      await page.waitForTimeout(1000);
+      const shownFile = detail.files.length > 1 ? await page.getByLabel('File', { exact: true }).inputValue() : detail.files[0].path;
+      check(shownFile === target!.path, `F12 on ${cell} shows ${target!.path}${target!.path === finding.file ? '' : ', another file of the run'} (shown: ${shownFile})`);
+      check((await cursorLine(page.locator('.monaco-editor').first())) === target!.line, `and puts the cursor on its .subckt line ${target!.line}`);
+      say(`screenshot ${path.relative(repoRoot, await screenshot(page, 'go-to-definition', { folder: 'review', fullPage: false }))}`);
+    }
+
+    // The chain plot: a finding whose picture is the staircase through a chain of stages.
+    let chain: StoredFinding | undefined;
+    for (let p = 1; !chain && p <= 20; p++) {
+      const pageOf = await apiGet<{ items: StoredFinding[]; total: number }>(page, `/api/runs/${run.id}/findings?pageSize=200&page=${p}`);
+      chain = pageOf.items.find((f) => f.plot?.kind === 'chain');
+      if (p * 200 >= pageOf.total) break;
+    }
+    if (check(Boolean(chain), 'the run has a finding with a chain plot')) {
+      await page.goto(`/runs/${run.id}?tab=findings&rule=${encodeURIComponent(chain!.ruleId)}&finding=${chain!.id}`);
+      const plot = page.locator('svg[data-plot="chain"]');
+      await plot.waitFor({ timeout: 20_000 });
+      await plot.scrollIntoViewIfNeeded();
+      const steps = await plot.locator('[data-step]').count();
+      check(steps === (chain!.plot as { levels: number[] }).levels.length - 1, `the chain plot draws one staircase corner per stage (${steps})`);
+      say(`screenshot ${path.relative(repoRoot, await screenshot(page, 'chain-plot', { folder: 'review' }))}`);
+      await plot.screenshot({ path: path.join(repoRoot, 'test-artifacts', 'review', 'chain-plot-figure.png') });
+    }
+
+    // The same review at the smallest supported width.
+    await page.setViewportSize({ width: 1280, height: 800 });
+    await page.goto(`/runs/${run.id}?tab=findings&finding=${finding.id}`);
+    await page.locator('.view-overlays .kw-line-focus').first().waitFor({ timeout: 20_000 });
+    const overflow = await page.evaluate(() => document.documentElement.scrollWidth - document.documentElement.clientWidth);
+    check(overflow <= 0, `at 1280 px the page does not scroll sideways (${overflow} px over)`);
+    say(`screenshot ${path.relative(repoRoot, await screenshot(page, 'run-1280', { folder: 'review' }))}`);
+
+    clean(guarded, 'review journey');
+    await guarded.context.close();
+  } finally {
+    await browser.close();
+  }
+}
+
+const external = process.env.KEEPWELL_URL?.replace(/\/$/, '');
+const own = external ? null : await startKeepwell();
+try {
+  await journey(external ?? own!.base);
+} catch (error) {
+  check(false, `the journey ran to its end (${error instanceof Error ? error.message : String(error)})`);
+} finally {
+  await own?.stop();
+}
+console.log(problems.length ? `\n${problems.length} check(s) failed` : '\nAll review checks passed');
+process.exit(problems.length ? 1 : 0);
