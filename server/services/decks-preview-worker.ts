@@ -1,6 +1,7 @@
 // The checker, run over one netlist with several decks, inside a worker thread so
 // that the API stays responsive and a preview can be stopped at its time limit.
-// `checkWithDecks` is plain computation; the bottom of the file is the thread's entry.
+// `checkWithDecks` is plain computation; the bottom of the file is the thread's entry,
+// which answers each job posted to it with { id, ok, outcomes | error }.
 
 import { parentPort, workerData } from 'node:worker_threads';
 import { readDesign, type Design } from '../../grammar/index';
@@ -9,7 +10,7 @@ import type { Deck } from '../../shared/deck';
 import type { Finding } from '../../shared/findings';
 
 export interface PreviewJob {
-  kind: 'keepwell-deck-preview';
+  id: number;
   /** Stored path (forward slashes) and text of each netlist file. */
   files: [string, string][];
   decks: Deck[];
@@ -34,7 +35,13 @@ export function checkWithDecks(files: [string, string][], decks: Deck[]): Previe
   });
 }
 
-const job = workerData as PreviewJob | undefined;
-if (parentPort && job?.kind === 'keepwell-deck-preview') {
-  parentPort.postMessage(checkWithDecks(job.files, job.decks));
+const port = parentPort;
+if (port && (workerData as { kind?: string } | undefined)?.kind === 'keepwell-deck-preview-thread') {
+  port.on('message', (job: PreviewJob) => {
+    try {
+      port.postMessage({ id: job.id, ok: true, outcomes: checkWithDecks(job.files, job.decks) });
+    } catch (err) {
+      port.postMessage({ id: job.id, ok: false, error: err instanceof Error ? err.message : String(err) });
+    }
+  });
 }

@@ -8,58 +8,113 @@ import type { DeckPreview } from '../../shared/api/decks';
 import type { Deck } from '../../shared/deck';
 import type { Finding } from '../../shared/findings';
 import { defaultDeck } from '../../rules/default-deck';
-import { Block, Netlist, NetlistFile, RuleDeckVersion } from '../db/models';
+import type { AppContext } from '../context';
+import { Block, Netlist, RuleDeckVersion } from '../db/models';
 import { HttpError, notFound } from '../errors';
 import { canonicalDeck, getVersion } from './decks';
 import type { PreviewJob, PreviewOutcome } from './decks-preview-worker';
+import { loadNetlistBytes } from './uploads';
+import { decodeNetlistText } from './uploads-text';
 
 export interface PreviewLimits {
   /** Wall-clock limit of the check, both decks together (default 60 s). */
   timeMs?: number;
-  /** Heap limit of the worker thread (default 2 GiB). */
-  heapMb?: number;
 }
 
 /** Each of the added/removed/changed lists is cut at this length; the counts stay complete. */
 export const PREVIEW_LIST_LIMIT = 200;
 
 const DEFAULT_TIME_MS = 60_000;
-const DEFAULT_HEAP_MB = 2048;
+/** Heap limit of the preview thread: a preview past it fails alone, the server carries on. */
+const HEAP_MB = 2048;
+/** A warm thread is kept this long after its last preview (loading the checker costs seconds). */
+const IDLE_MS = 10 * 60_000;
 
-function startWorker(job: PreviewJob, heapMb: number): Worker {
+type Reply = { id: number; ok: true; outcomes: PreviewOutcome[] } | { id: number; ok: false; error: string };
+
+function startWorker(): Worker {
   const here = import.meta.url;
-  const resourceLimits = { maxOldGenerationSizeMb: heapMb };
-  if (!here.endsWith('.ts')) return new Worker(new URL('./decks-preview-worker.js', here), { workerData: job, resourceLimits });
+  const workerData = { kind: 'keepwell-deck-preview-thread' };
+  const resourceLimits = { maxOldGenerationSizeMb: HEAP_MB };
+  if (!here.endsWith('.ts')) return new Worker(new URL('./decks-preview-worker.js', here), { workerData, resourceLimits });
   const entry = new URL('./decks-preview-worker.ts', here).href;
-  return new Worker(new URL('./decks-preview-boot.mjs', here), { workerData: { ...job, entry }, resourceLimits });
+  return new Worker(new URL('./decks-preview-boot.mjs', here), { workerData: { ...workerData, entry }, resourceLimits });
 }
 
-export function runPreviewJob(files: [string, string][], decks: Deck[], limits: PreviewLimits = {}): Promise<PreviewOutcome[]> {
-  const timeMs = limits.timeMs ?? DEFAULT_TIME_MS;
-  return new Promise((resolve, reject) => {
-    const worker = startWorker({ kind: 'keepwell-deck-preview', files, decks }, limits.heapMb ?? DEFAULT_HEAP_MB);
-    let settled = false;
-    const settle = (fn: () => void) => {
-      if (settled) return;
-      settled = true;
-      clearTimeout(timer);
-      fn();
-      void worker.terminate();
-    };
-    const timer = setTimeout(
-      () =>
-        settle(() =>
-          reject(new HttpError(504, 'preview-timeout', `The preview took longer than ${Math.round(timeMs / 1000)} s and was stopped. Submit a run to check this netlist in the queue.`)),
-        ),
-      timeMs,
-    );
-    worker.once('message', (outcomes: PreviewOutcome[]) => settle(() => resolve(outcomes)));
-    worker.once('error', (err) => {
-      const outOfMemory = (err as { code?: string }).code === 'ERR_WORKER_OUT_OF_MEMORY';
-      settle(() => reject(outOfMemory ? new HttpError(507, 'preview-too-large', 'The preview ran out of memory. Submit a run to check this netlist in the queue.') : err));
+/**
+ * One preview thread per process, kept warm between previews and given one job at a
+ * time. A job past its time limit terminates the thread (the next job starts a new one),
+ * so a runaway check never outlives its request.
+ */
+class PreviewThread {
+  private worker: Worker | null = null;
+  private queue: Promise<unknown> = Promise.resolve();
+  private nextId = 1;
+  private idle: NodeJS.Timeout | null = null;
+
+  run(files: [string, string][], decks: Deck[], timeMs: number): Promise<PreviewOutcome[]> {
+    const result = this.queue.then(() => this.runNow(files, decks, timeMs));
+    this.queue = result.catch(() => undefined);
+    return result;
+  }
+
+  private runNow(files: [string, string][], decks: Deck[], timeMs: number): Promise<PreviewOutcome[]> {
+    if (this.idle) clearTimeout(this.idle);
+    const worker = (this.worker ??= startWorker());
+    worker.ref();
+    const id = this.nextId++;
+    return new Promise<PreviewOutcome[]>((resolve, reject) => {
+      const done = (fn: () => void, keep: boolean) => {
+        clearTimeout(timer);
+        worker.off('message', onMessage);
+        worker.off('error', onError);
+        worker.off('exit', onExit);
+        if (keep) this.park(worker);
+        else this.discard(worker);
+        fn();
+      };
+      const onMessage = (reply: Reply) => {
+        if (reply.id !== id) return;
+        done(() => (reply.ok ? resolve(reply.outcomes) : reject(new Error(`preview check failed: ${reply.error}`))), true);
+      };
+      const onError = (err: Error) => {
+        const outOfMemory = (err as { code?: string }).code === 'ERR_WORKER_OUT_OF_MEMORY';
+        done(() => reject(outOfMemory ? new HttpError(507, 'preview-too-large', 'The preview ran out of memory. Submit a run to check this netlist in the queue.') : err), false);
+      };
+      const onExit = (code: number) => done(() => reject(new Error(`preview thread stopped with exit code ${code} before answering`)), false);
+      const timer = setTimeout(
+        () =>
+          done(
+            () => reject(new HttpError(504, 'preview-timeout', `The preview took longer than ${Math.round(timeMs / 1000)} s and was stopped. Submit a run to check this netlist in the queue.`)),
+            false,
+          ),
+        timeMs,
+      );
+      worker.on('message', onMessage);
+      worker.once('error', onError);
+      worker.once('exit', onExit);
+      const job: PreviewJob = { id, files, decks };
+      worker.postMessage(job);
     });
-    worker.once('exit', (code) => settle(() => reject(new Error(`preview worker stopped with exit code ${code} before answering`))));
-  });
+  }
+
+  /** Keep the thread for the next preview without holding the process open. */
+  private park(worker: Worker) {
+    worker.unref();
+    this.idle = setTimeout(() => this.discard(worker), IDLE_MS);
+    this.idle.unref();
+  }
+
+  private discard(worker: Worker) {
+    if (this.worker === worker) this.worker = null;
+    void worker.terminate();
+  }
+}
+
+const thread = new PreviewThread();
+
+export function runPreviewJob(files: [string, string][], decks: Deck[], limits: PreviewLimits = {}): Promise<PreviewOutcome[]> {
+  return thread.run(files, decks, limits.timeMs ?? DEFAULT_TIME_MS);
 }
 
 /** Fingerprint → finding; `compareFindings` lists what `after` adds, removes and re-grades. */
@@ -88,6 +143,7 @@ async function netlistFor(teamId: string, netlistId?: string) {
 }
 
 export async function previewVersion(
+  ctx: Pick<AppContext, 'sequelize'>,
   teamId: string,
   deckId: string,
   versionId: string,
@@ -99,9 +155,8 @@ export async function previewVersion(
   const parent = version.parentVersionId ? await RuleDeckVersion.findByPk(version.parentVersionId) : null;
   const baseDeck = parent ? canonicalDeck(parent.content) : defaultDeck();
   const netlist = await netlistFor(teamId, input.netlistId);
-  const rows = await NetlistFile.unscoped().findAll({ where: { netlistId: netlist.id }, attributes: ['path', 'content'], order: [['path', 'ASC']] });
-  const decoder = new TextDecoder('utf-8', { fatal: false });
-  const files: [string, string][] = rows.map((r) => [r.path, decoder.decode(r.content)]);
+  // Read and decoded as a run reads them (invalid UTF-8 becomes U+FFFD).
+  const files: [string, string][] = (await loadNetlistBytes(ctx, netlist.id)).map((f) => [f.path, decodeNetlistText(f.path, f.content).text]);
 
   const [base, draft] = await runPreviewJob(files, [baseDeck, canonicalDeck(version.content)], limits);
   const { added, removed, changed } = compareFindings(base.findings, draft.findings);

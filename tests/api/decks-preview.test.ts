@@ -112,6 +112,12 @@ describe('preview of a draft', () => {
     expect(res.netlist.id).toBe(chosen.id);
     expect(res.counts).toMatchObject({ base: 2, draft: 2 });
 
-    await expect(previewVersion(team.id, deck.id, draft!.id, {}, { timeMs: 1 })).rejects.toMatchObject({ status: 504, code: 'preview-timeout' });
+    // Four hundred distinct inverters take a few hundred milliseconds to check twice; a 20 ms limit stops the
+    // thread, and the next preview gets a fresh one.
+    const many = Array.from({ length: 400 }, (_, i) => `.subckt inv${i} a y vdd vss\nMp y a vdd vdd pmos w=${(1 + i / 100).toFixed(2)}e-6 l=0.25e-6\nMn y a vss vss nmos w=1e-6 l=0.25e-6\n.ends inv${i}\nX${i} in o${i} vdd vss inv${i}\n`);
+    const slow = await makeNetlist(team.id, block.id, { 'many.sp': many.join('') + '.end\n' });
+    await expect(previewVersion(env.ctx, team.id, deck.id, draft!.id, { netlistId: slow.id }, { timeMs: 20 })).rejects.toMatchObject({ status: 504, code: 'preview-timeout' });
+    const after = await previewVersion(env.ctx, team.id, deck.id, draft!.id, { netlistId: chosen.id });
+    expect(after.counts).toMatchObject({ base: 2, draft: 2 });
   });
 });

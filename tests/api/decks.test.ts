@@ -9,11 +9,13 @@ import { auditPageSchema } from '../../shared/api/audit';
 import { deckDetailSchema, deckListSchema, deckVersionSchema, type DeckVersion } from '../../shared/api/decks';
 import { defaultDeck } from '../../rules/default-deck';
 import { validateDeck } from '../../rules/validate-deck';
-import { RuleDeck, RuleDeckVersion, Team } from '../../server/db/models';
+import { Block, RuleDeck, RuleDeckVersion, Team } from '../../server/db/models';
 import { seedDemo, DEMO_TEAM } from '../../server/seed/demo';
 import { versionForRun } from '../../server/services/decks';
+import { createQueuedRun } from '../../server/services/runs';
+import { loadRunInputs } from '../../server/services/runs-store';
 import { createTeam, signedInAs, startTestEnv, type TestEnv } from './helpers';
-import { makeDeck } from './decks-fixtures';
+import { INVERTER_NETLIST, makeDeck, makeNetlist } from './decks-fixtures';
 import type request from 'supertest';
 
 let env: TestEnv;
@@ -272,6 +274,36 @@ describe('audit trail of decks', () => {
       changes: ['replace /rules/stage.non-regenerative/enabled', 'replace /corners/2/nmos/vt0'],
     });
     expect(published.detail).toMatchObject({ version: 1, changeNote: 'Tighter ff-hot threshold.', deckDefault: true });
+  });
+});
+
+describe('runs and deck versions', () => {
+  it('a run records the version it used, and re-reading that version later gives the same settings', async () => {
+    const team = await createTeam();
+    const owner = await signedInAs(env, team, ['methodology']);
+    const { deck, published } = await makeDeck(team.id);
+    await RuleDeck.update({ teamDefault: true }, { where: { id: deck.id } });
+    const block = await Block.create({ teamId: team.id, name: 'run-deck-block', createdBy: null });
+    const netlist = await makeNetlist(team.id, block.id, { 'cells.sp': INVERTER_NETLIST });
+
+    const runId = await createQueuedRun(env.ctx, { id: owner.user.id, teamId: team.id }, { netlistId: netlist.id, note: '' });
+    const run = (await owner.agent.get(`/api/runs/${runId}`).expect(200)).body;
+    expect(run.deck).toMatchObject({ versionId: published.id, version: 1 });
+    const before = JSON.stringify((await loadRunInputs(env.ctx, { netlistId: netlist.id, deckVersionId: published.id })).deck);
+
+    // The methodology owner moves on: a new draft, edited, published and made the default.
+    const d2 = deckVersionSchema.parse((await owner.agent.post(`/api/decks/${deck.id}/drafts`).send({}).expect(201)).body);
+    const e2 = await patch(owner.agent, d2, [{ op: 'replace', path: '/rules/stage.noise-margin/params/minFraction', value: 0.3 }]);
+    await publish(owner.agent, e2);
+
+    const again = (await owner.agent.get(`/api/runs/${runId}`).expect(200)).body;
+    expect(again.deck.versionId).toBe(published.id);
+    const after = (await loadRunInputs(env.ctx, { netlistId: netlist.id, deckVersionId: again.deck.versionId })).deck;
+    expect(JSON.stringify(after)).toBe(before);
+    expect(after.rules['stage.noise-margin'].params.minFraction).toBe(0.1);
+    // A run submitted now, naming no version, gets the new default.
+    const next = await createQueuedRun(env.ctx, { id: owner.user.id, teamId: team.id }, { netlistId: netlist.id, note: '' });
+    expect((await owner.agent.get(`/api/runs/${next}`).expect(200)).body.deck).toMatchObject({ versionId: e2.id, version: 2 });
   });
 });
 

@@ -102,7 +102,7 @@ export function deckRoutes(ctx: AppContext): Router {
 
   router.post('/:deckId/versions/:versionId/preview', requirePermission('deck.edit'), async (req, res) => {
     const { params, body } = parseRequest(req, { params: deckVersionParamsSchema, body: previewBodySchema });
-    res.json(await previewVersion(teamIdOf(req), params.deckId, params.versionId, body));
+    res.json(await previewVersion(ctx, teamIdOf(req), params.deckId, params.versionId, body));
   });
 
   return router;

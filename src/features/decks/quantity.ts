@@ -13,8 +13,8 @@ const DISPLAY: [number, string][] = [
   [1e12, 'T'], [1e9, 'G'], [1e6, 'M'], [1e3, 'k'], [1, ''], [1e-3, 'm'], [1e-6, 'µ'], [1e-9, 'n'], [1e-12, 'p'], [1e-15, 'f'], [1e-18, 'a'],
 ];
 
-/** Units shown without engineering prefixes: temperatures, plain ratios and counts. */
-const PLAIN_UNITS = new Set(['°C', 'ratio', 'count', '']);
+/** Units shown without engineering prefixes: temperatures, ratios, counts, and units a prefix would garble (m1/V, m√V). */
+const PLAIN_UNITS = new Set(['°C', 'ratio', 'count', '', 'V/V', '1/V', '√V']);
 
 /** The unit as people read it beside a value; a ratio has none. */
 export function unitLabel(unit: string | undefined): string {
