@@ -122,6 +122,10 @@ export async function listFindings(ctx: Ctx, teamId: string, runId: string, quer
     where.push(`f.search_text like :pattern`);
     replacements.pattern = likePattern(query.q);
   }
+  if (query.file) {
+    where.push('f.file = :file');
+    replacements.file = query.file;
+  }
   if (query.status) where.push(query.status === 'waived' ? waived.sql : `not ${waived.sql}`);
   const clause = where.join(' and ');
   const dir = query.order === 'desc' ? 'desc' : 'asc';
@@ -137,6 +141,18 @@ export async function listFindings(ctx: Ctx, teamId: string, runId: string, quer
     ctx.sequelize.query<{ total: number }>(`select cast(count(*) as integer) as total from findings f where ${clause}`, { replacements, type: QueryTypes.SELECT }),
   ]);
   return { items: rows.map(findingView), total, page: query.page, pageSize: query.pageSize };
+}
+
+/** One finding of a run, by id, with its waiver status. */
+export async function getFinding(ctx: Ctx, teamId: string, runId: string, findingId: number): Promise<StoredFinding> {
+  const run = await runOfTeam(ctx, teamId, runId);
+  const waived = await waivedCondition(ctx, teamId, run.block_id);
+  const rows = await ctx.sequelize.query<FindingRowData>(`select ${FINDING_COLUMNS}, ${waived.sql} as waived from findings f where f.run_id = :runId and f.id = :findingId`, {
+    replacements: { runId, findingId, ...waived.replacements },
+    type: QueryTypes.SELECT,
+  });
+  if (!rows[0]) throw notFound('Finding');
+  return findingView(rows[0]);
 }
 
 const IN_BASE = 'exists (select 1 from findings b where b.run_id = :baseId and b.fingerprint = f.fingerprint)';

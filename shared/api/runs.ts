@@ -187,8 +187,13 @@ export const findingsQuerySchema = pageQuerySchema.extend({
   status: z.enum(FINDING_STATUSES).optional(),
   /** Case-insensitive substring of the message, a net or a device name. */
   q: z.string().trim().max(200).optional(),
+  /** Only findings anchored in this file of the run (the editor view's gutter marks). */
+  file: z.string().min(1).max(1000).optional(),
 });
 export type FindingsQuery = z.infer<typeof findingsQuerySchema>;
+
+/** One finding of a run by its id (a shared link to a finding the table's page does not hold). */
+export const findingParamsSchema = z.object({ id: z.string().uuid(), findingId: z.coerce.number().int().min(1) });
 
 export const storedFindingSchema = findingSchema.extend({
   id: z.number().int(),

@@ -9,12 +9,13 @@ import {
   createRunBodySchema,
   createRunFieldsSchema,
   fileQuerySchema,
+  findingParamsSchema,
   findingsQuerySchema,
   runListQuerySchema,
 } from '../../../shared/api/runs';
 import type { AppContext } from '../../context';
 import { cancelRun, listRuns, runDetail, runFile, runFiles, submitRun } from '../../services/runs';
-import { compareRuns, listFindings } from '../../services/runs-findings';
+import { compareRuns, getFinding, listFindings } from '../../services/runs-findings';
 import { storeUpload } from '../../services/uploads';
 import { parseRequest } from '../http';
 import { requirePermission, signedIn, teamIdOf } from '../middleware/auth';
@@ -55,6 +56,11 @@ export function runRoutes(ctx: AppContext): Router {
   router.get('/:id/findings', requirePermission('design.read'), async (req, res) => {
     const { params, query } = parseRequest(req, { params: idParamSchema, query: findingsQuerySchema });
     res.json(await listFindings(ctx, teamIdOf(req), params.id, query));
+  });
+
+  router.get('/:id/findings/:findingId', requirePermission('design.read'), async (req, res) => {
+    const { params } = parseRequest(req, { params: findingParamsSchema });
+    res.json(await getFinding(ctx, teamIdOf(req), params.id, params.findingId));
   });
 
   router.get('/:id/files', requirePermission('design.read'), async (req, res) => {
