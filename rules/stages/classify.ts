@@ -17,23 +17,24 @@ const INPUT = 2;
 
 /** Gate state of a stage's elements under assignments of its inputs (bit i of a mask = inputs[i] high). */
 export class StageLogic {
-  private readonly state: Uint8Array;
-  private readonly bit: Int32Array;
-  private readonly nChannel: Uint8Array;
-  private readonly tiedToRail: Uint8Array;
+  // Plain arrays: a stage has a handful of elements, and small typed arrays cost more to allocate than they save.
+  private readonly state: number[];
+  private readonly bit: number[];
+  private readonly nChannel: number[];
+  private readonly tiedToRail: number[];
   /** Gate net of each element (after zero-ohm ties), −1 for resistors. */
-  readonly gate: Int32Array;
+  readonly gate: number[];
   /** 'n', 'p' or 'r' per element. */
   readonly polarity: ('n' | 'p' | 'r')[];
 
   constructor(stage: Stage, cell: Cell, railOf: (net: number) => RailKind | undefined, alias?: Int32Array) {
     const k = stage.elements.length;
-    this.state = new Uint8Array(k);
-    this.bit = new Int32Array(k);
-    this.nChannel = new Uint8Array(k);
-    this.tiedToRail = new Uint8Array(k);
-    this.gate = new Int32Array(k);
-    this.polarity = new Array(k);
+    this.state = new Array<number>(k).fill(ALWAYS);
+    this.bit = new Array<number>(k).fill(0);
+    this.nChannel = new Array<number>(k).fill(0);
+    this.tiedToRail = new Array<number>(k).fill(0);
+    this.gate = new Array<number>(k).fill(-1);
+    this.polarity = new Array<'n' | 'p' | 'r'>(k).fill('r');
     for (let i = 0; i < k; i++) {
       const el = stage.elements[i];
       if (el.kind === 'res') {

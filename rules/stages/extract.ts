@@ -210,17 +210,29 @@ export function extractStages(cell: Cell, rails: readonly (RailKind | undefined)
     // towards ground, as in static CMOS) and then most balanced: a stack node also splits it, with a device on the wrong side.
     let best: number | null = null;
     let bestScore = Infinity;
-    for (const [c] of [...degree].sort((p, q) => p[0] - q[0])) {
-      const sides = splitAt(list, c);
-      if (!sides || !sides.up.length || !sides.down.length) continue;
-      let wrong = 0;
-      for (const e of sides.up) if (edgePolarity[e] === POLARITY_N) wrong++;
-      for (const e of sides.down) if (edgePolarity[e] === POLARITY_P) wrong++;
-      const score = wrong * 1000 + Math.abs(sides.up.length - sides.down.length);
-      if (score < bestScore) {
-        bestScore = score;
-        best = c;
+    // First the nets touched by both polarities (a static output; a stack node sees one), then, failing those, every net.
+    const mixed = new Map<number, number>();
+    for (const e of list) {
+      const bit = edgePolarity[e] === POLARITY_N ? 1 : edgePolarity[e] === POLARITY_P ? 2 : 3;
+      mixed.set(edgeA[e], (mixed.get(edgeA[e]) ?? 0) | bit);
+      mixed.set(edgeB[e], (mixed.get(edgeB[e]) ?? 0) | bit);
+    }
+    const first: number[] = [];
+    for (const [c] of degree) if (mixed.get(c) === 3) first.push(c);
+    for (const pass of [first, [...degree.keys()]]) {
+      for (const c of pass.sort(ascending)) {
+        const sides = splitAt(list, c);
+        if (!sides || !sides.up.length || !sides.down.length) continue;
+        let wrong = 0;
+        for (const e of sides.up) if (edgePolarity[e] === POLARITY_N) wrong++;
+        for (const e of sides.down) if (edgePolarity[e] === POLARITY_P) wrong++;
+        const score = wrong * 1000 + Math.abs(sides.up.length - sides.down.length);
+        if (score < bestScore) {
+          bestScore = score;
+          best = c;
+        }
       }
+      if (best !== null) return best;
     }
     return best;
   };
