@@ -90,8 +90,15 @@ const ORDER: Record<FindingsQuery['sort'], string[]> = {
   instances: ['f.instances'],
 };
 
-async function runOfTeam(ctx: Ctx, teamId: string, runId: string): Promise<{ id: string; block_id: string; state: string }> {
-  const rows = await ctx.sequelize.query<{ id: string; block_id: string; state: string }>('select id, block_id, state from runs where id = :runId and team_id = :teamId', {
+interface RunRef {
+  id: string;
+  block_id: string;
+  state: string;
+  summary: { errors: number; warnings: number; infos: number } | null;
+}
+
+async function runOfTeam(ctx: Ctx, teamId: string, runId: string): Promise<RunRef> {
+  const rows = await ctx.sequelize.query<RunRef>('select id, block_id, state, summary from runs where id = :runId and team_id = :teamId', {
     replacements: { runId, teamId },
     type: QueryTypes.SELECT,
   });
@@ -131,6 +138,12 @@ export async function listFindings(ctx: Ctx, teamId: string, runId: string, quer
   const dir = query.order === 'desc' ? 'desc' : 'asc';
   const order = (alias: string) => [...ORDER[query.sort], 'f.id'].map((c) => `${c.replace(/^f\./, `${alias}.`)} ${dir}`).join(', ');
 
+  // Unfiltered but for severity, the total is in the run's summary (written with the findings, in one transaction).
+  const s = run.summary;
+  const countedTotal =
+    s && run.state === 'succeeded' && !query.rule?.length && !query.cell?.length && !query.q && !query.status
+      ? [{ total: (['error', 'warning', 'info'] as const).filter((v) => !query.severity?.length || query.severity.includes(v)).reduce((n, v) => n + (v === 'error' ? s.errors : v === 'warning' ? s.warnings : s.infos), 0) }]
+      : null;
   // The page's ids first, from the sort's index alone; only those 50 rows are then read whole.
   const [rows, [{ total }]] = await Promise.all([
     ctx.sequelize.query<FindingRowData>(
@@ -138,7 +151,7 @@ export async function listFindings(ctx: Ctx, teamId: string, runId: string, quer
        select ${FINDING_COLUMNS}, ${waived.sql} as waived from page join findings f on f.id = page.id order by ${order('f')}`,
       { replacements, type: QueryTypes.SELECT },
     ),
-    ctx.sequelize.query<{ total: number }>(`select cast(count(*) as integer) as total from findings f where ${clause}`, { replacements, type: QueryTypes.SELECT }),
+    countedTotal ?? ctx.sequelize.query<{ total: number }>(`select cast(count(*) as integer) as total from findings f where ${clause}`, { replacements, type: QueryTypes.SELECT }),
   ]);
   return { items: rows.map(findingView), total, page: query.page, pageSize: query.pageSize };
 }
