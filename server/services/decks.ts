@@ -189,7 +189,8 @@ export async function diffVersions(teamId: string, fromId: string, toId: string)
 
 /**
  * The version a run uses: the one it names, which must be a published version of the
- * team's, or else the team default deck's default version (null when the team has none).
+ * team's, or else the team default deck's default version (null when no deck of the
+ * team has a published version).
  */
 export async function versionForRun(teamId: string, versionId?: string | null): Promise<RuleDeckVersion | null> {
   if (versionId) {
@@ -197,9 +198,14 @@ export async function versionForRun(teamId: string, versionId?: string | null): 
     if (version.state !== 'published') throw new HttpError(409, 'version-not-published', `Version ${version.version} is a draft; runs use published versions only.`);
     return version;
   }
-  const deck =
-    (await RuleDeck.findOne({ where: { teamId, teamDefault: true } })) ??
-    (await RuleDeck.findOne({ where: { teamId, defaultVersionId: { [Op.ne]: null } }, order: [['createdAt', 'ASC']] }));
+  // The team default deck first; while it has nothing published, the oldest deck that has.
+  const deck = await RuleDeck.findOne({
+    where: { teamId, defaultVersionId: { [Op.ne]: null } },
+    order: [
+      ['teamDefault', 'DESC'],
+      ['createdAt', 'ASC'],
+    ],
+  });
   if (!deck?.defaultVersionId) return null;
   return RuleDeckVersion.findOne({ where: { id: deck.defaultVersionId, state: 'published' } });
 }

@@ -262,6 +262,74 @@ describe('corners', () => {
   });
 });
 
+describe('naming and device map', () => {
+  it('saves supply patterns as a list and a reordered device map as a whole', async () => {
+    const draft = version();
+    const api = fakeApi(deckRoutes(users.methodology, draft, { [`PATCH /api/decks/${DECK_ID}/versions/${V2}`]: () => json(200, { ...draft, lockVersion: 1 }) }));
+    renderApp(`/decks/${DECK_ID}/versions/${V2}?tab=naming`);
+    const user = userEvent.setup();
+    const power = await screen.findByLabelText('Power nets');
+    expect(power).toHaveValue('vdd*, vcc*, vpwr*, vccd*, vpb');
+    await user.clear(power);
+    await user.type(power, 'vdd*  vddio,vcc*');
+    await user.click(screen.getByRole('button', { name: 'Save clocks and supplies' }));
+    await waitFor(() => expect(api.callsTo(`PATCH /api/decks/${DECK_ID}/versions/${V2}`)).toHaveLength(1));
+    expect(api.callsTo(`PATCH /api/decks/${DECK_ID}/versions/${V2}`)[0].body).toEqual({
+      lockVersion: 0,
+      changes: [{ op: 'replace', path: '/supplies/power', value: ['vdd*', 'vddio', 'vcc*'] }],
+    });
+
+    await user.click(screen.getByRole('tab', { name: 'Device map' }));
+    await user.click(await screen.findByRole('button', { name: 'Move pattern 4 up' }));
+    await user.click(screen.getByRole('button', { name: 'Save device map' }));
+    await waitFor(() => expect(api.callsTo(`PATCH /api/decks/${DECK_ID}/versions/${V2}`)).toHaveLength(2));
+    const map = draft.content.deviceMap;
+    // The second save carries the lockVersion the first one returned.
+    expect(api.callsTo(`PATCH /api/decks/${DECK_ID}/versions/${V2}`)[1].body).toEqual({
+      lockVersion: 1,
+      changes: [{ op: 'replace', path: '/deviceMap', value: [map[0], map[1], map[3], map[2], map[4], map[5]] }],
+    });
+  });
+});
+
+describe('deck history', () => {
+  it('lists versions with their state, and a publisher can choose the one new runs use', async () => {
+    const draft = version();
+    const detail = deckDetail(draft);
+    detail.versions.push({ ...detail.versions[1], id: 'e0000000-0000-4000-8000-000000000000', version: 0, isDeckDefault: false, changeNote: 'Trial deck.' });
+    const api = fakeApi({
+      ...deckRoutes(users.methodology, draft),
+      [`GET /api/decks/${DECK_ID}`]: () => json(200, detail),
+      [`POST /api/decks/${DECK_ID}/versions/:id/default`]: () => json(200, detail),
+    });
+    renderApp(`/decks/${DECK_ID}`);
+    const user = userEvent.setup();
+    const table = await screen.findByRole('table', { name: 'Versions of Larkspur core deck' });
+    const rows = within(table).getAllByRole('row').slice(1);
+    expect(rows.map((r) => within(r).getAllByRole('cell')[0].textContent)).toEqual(['Version 2', 'Version 1', 'Version 0']);
+    expect(rows[0]).toHaveTextContent('Draft started from version 1');
+    expect(rows[1]).toHaveTextContent('Used by new runs');
+    expect(within(rows[1]).queryByRole('button', { name: /Use for new runs/ })).not.toBeInTheDocument();
+    expect(within(rows[0]).queryByRole('button', { name: /Use for new runs/ })).not.toBeInTheDocument(); // drafts cannot be used by runs
+    await user.click(within(rows[2]).getByRole('button', { name: /Use for new runs/ }));
+    await waitFor(() => expect(api.callsTo(`POST /api/decks/${DECK_ID}/versions/e0000000-0000-4000-8000-000000000000/default`)).toHaveLength(1));
+    expect(screen.getByRole('link', { name: 'Open the draft (version 2)' })).toHaveAttribute('href', `/decks/${DECK_ID}/versions/${V2}`);
+    // The comparison starts from the newest version and the one it started from.
+    expect(screen.getByLabelText('From')).toHaveValue(V1);
+    expect(screen.getByLabelText('To')).toHaveValue(V2);
+    expect(await screen.findByText('The two versions have the same settings.')).toBeInTheDocument();
+    expect(api.callsTo('GET /api/decks/diff')[0].search).toBe(`?from=${V1}&to=${V2}`);
+  });
+
+  it('a reviewer reads the history but cannot start drafts or change the default', async () => {
+    fakeApi(deckRoutes(users.reviewer, version()));
+    renderApp(`/decks/${DECK_ID}`);
+    await screen.findByRole('table', { name: 'Versions of Larkspur core deck' });
+    expect(screen.queryByRole('link', { name: /Open the draft/ })).not.toBeInTheDocument();
+    expect(screen.queryByRole('button', { name: /Use for new runs/ })).not.toBeInTheDocument();
+  });
+});
+
 describe('publishing', () => {
   it('asks for a change note and publishes with the draft’s lockVersion', async () => {
     const draft = version({ lockVersion: 4 });

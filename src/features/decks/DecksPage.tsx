@@ -154,9 +154,9 @@ export function DecksPage() {
           </EmptyState>
         ) : (
           <>
-            {!decks.data.some((d) => d.teamDefault && d.defaultVersion) && (
-              <Notice tone="warning" className="mb-4" title="No default for runs">
-                Runs that name no deck version need a published version marked as the team’s default. Open a deck and choose “Use for new runs” on one of its versions.
+            {!decks.data.some((d) => d.defaultVersion) && (
+              <Notice tone="warning" className="mb-4" title="Nothing published yet">
+                Runs are checked against published versions only. Open a deck’s draft and publish it so that designers can submit runs.
               </Notice>
             )}
             <DataTable caption="Rule decks of your team" data={decks.data} columns={columns} rowKey={(d) => d.id} initialSorting={[{ id: 'name', desc: false }]} />
