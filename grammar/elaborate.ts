@@ -19,7 +19,6 @@ import type { DeviceMapEntry } from '../shared/deck';
 import { globToRegExp } from '../shared/deck';
 import type {
   ElementStatement,
-  Expr,
   FileAst,
   InstanceStatement,
   MosStatement,
@@ -29,7 +28,7 @@ import type {
   SubcktStatement,
   Value,
 } from './ast';
-import type { Cell, Design, Device, Diagnostic, DiagnosticSeverity, Instance, ModelCard, Mosfet, MosPolarity, PinDirection, RailKind, SourceLoc } from './design';
+import type { Cell, Design, Device, Diagnostic, DiagnosticSeverity,  ModelCard, Mosfet, MosPolarity, PinDirection, RailKind, SourceLoc } from './design';
 import { evaluate } from './expression';
 import { NumberCache } from './numbers';
 import { parseNetlist } from './parser';
@@ -142,6 +141,7 @@ class Elaborator {
   private readonly defaultSizes: { defw?: Value; defl?: Value } = {};
   private readonly includeStack: string[] = [];
   private readonly deviceCache = new Map<string, DeviceKind | null>();
+  private readonly deviceBySpelling = new Map<string, DeviceKind | null>();
   private readonly deviceMatchers: { re: RegExp; kind: DeviceKind }[];
 
   private entries = new Set<string>();
@@ -474,9 +474,15 @@ class Elaborator {
 
   /** What a model or unresolved subcircuit name is: by its `.model` card, else by the deck's device map. */
   private deviceKind(name: string): DeviceKind | null {
+    // Keyed by the name as written first: model names are interned, so this is one lookup per device.
+    const known = this.deviceBySpelling.get(name);
+    if (known !== undefined) return known;
     const key = name.toLowerCase();
     const cached = this.deviceCache.get(key);
-    if (cached !== undefined) return cached;
+    if (cached !== undefined) {
+      this.deviceBySpelling.set(name, cached);
+      return cached;
+    }
     let kind: DeviceKind | null = null;
     let card = this.models.get(key);
     if (!card) {
@@ -498,6 +504,7 @@ class Elaborator {
       }
     }
     this.deviceCache.set(key, kind);
+    this.deviceBySpelling.set(name, kind);
     return kind;
   }
 
@@ -865,8 +872,18 @@ class Elaborator {
 
   private mosfet(el: MosStatement, polarity: MosPolarity, net: (id: number) => number, lookup: (n: string) => number | undefined, scale: number): Mosfet | null {
     const file = el.loc.file;
-    const size = this.sizes(el.name, el.w, el.l, file, el.loc, lookup, scale);
-    if (!size) return null;
+    let w: number;
+    let l: number;
+    if (typeof el.w === 'number' && typeof el.l === 'number') {
+      // The common case, a plain number for both: no evaluation, no temporary object.
+      w = el.w * scale;
+      l = el.l * scale;
+    } else {
+      const size = this.sizes(el.name, el.w, el.l, file, el.loc, lookup, scale);
+      if (!size) return null;
+      w = size.w;
+      l = size.l;
+    }
     const m = el.m === undefined ? undefined : typeof el.m === 'number' ? el.m : this.evalValue(el.m, file, lookup);
     const nf = el.nf === undefined ? 1 : typeof el.nf === 'number' ? el.nf : (this.evalValue(el.nf, file, lookup) ?? 1);
     let params = EMPTY_PARAMS;
@@ -890,8 +907,8 @@ class Elaborator {
       source: net(el.source),
       bulk: net(el.bulk),
       model: el.model,
-      w: size.w,
-      l: size.l,
+      w,
+      l,
       m: m ?? mult ?? 1,
       nf,
       params,
@@ -911,17 +928,18 @@ class Elaborator {
   ): void {
     if (kind === 'ignore') return;
     const file = el.loc.file;
-    const node = (i: number) => net(el.nodes[i]);
-    const param = (...names: string[]) => {
-      const p = el.params.find((q) => names.includes(q.name));
-      return p;
-    };
     if (kind === 'nmos' || kind === 'pmos') {
       if (el.nodes.length !== 4) {
         this.reportAt('error', 'pin-count', el.loc, `${el.name}: device ${el.cell} (a MOSFET) needs 4 nodes (drain gate source bulk), found ${el.nodes.length}`);
         return;
       }
-      const size = this.sizes(el.name, param('w')?.value, param('l')?.value, file, el.loc, lookup, scale);
+      let wv: Value | undefined;
+      let lv: Value | undefined;
+      for (const p of el.params) {
+        if (p.name === 'w') wv = p.value;
+        else if (p.name === 'l') lv = p.value;
+      }
+      const size = this.sizes(el.name, wv, lv, file, el.loc, lookup, scale);
       if (!size) return;
       let params = EMPTY_PARAMS;
       let m: number | undefined;
@@ -943,10 +961,10 @@ class Elaborator {
         kind: 'mos',
         polarity: kind === 'nmos' ? 'n' : 'p',
         name: el.name,
-        drain: node(0),
-        gate: node(1),
-        source: node(2),
-        bulk: node(3),
+        drain: net(el.nodes[0]),
+        gate: net(el.nodes[1]),
+        source: net(el.nodes[2]),
+        bulk: net(el.nodes[3]),
         model: el.cell,
         w: size.w,
         l: size.l,
@@ -961,13 +979,14 @@ class Elaborator {
       this.reportAt('error', 'pin-count', el.loc, `${el.name}: device ${el.cell} (a ${kind}) needs 2 nodes, found ${el.nodes.length}`);
       return;
     }
-    const a = node(0);
-    const b = node(1);
+    const a = net(el.nodes[0]);
+    const b = net(el.nodes[1]);
     if (kind === 'diode') {
       cell.others.push({ kind: 'diode', name: el.name, anode: a, cathode: b, model: el.cell, loc: el.loc });
       return;
     }
-    const valueParam = kind === 'resistor' ? param('r', 'resistance', 'value') : param('c', 'capacitance', 'value');
+    const valueNames = kind === 'resistor' ? ['r', 'resistance', 'value'] : ['c', 'capacitance', 'value'];
+    const valueParam = el.params.find((q) => valueNames.includes(q.name));
     const value = valueParam?.value === undefined ? undefined : this.evalValue(valueParam.value, file, lookup);
     if (kind === 'resistor') {
       if (value === 0) ties.push([a, b]);

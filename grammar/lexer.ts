@@ -5,8 +5,10 @@
 // purpose, for speed on million-line extractions:
 //
 //   Fields        a run of plain whitespace-separated fields on one logical line,
-//                 continuations included; its payload carries each field's text
-//                 and offset (one token per typical element line, not ten)
+//                 continuations included (one token per typical element line, not
+//                 ten); the fields' positions go to `fieldStore`, and the token's
+//                 payload is the index of its first field there. No string is cut
+//                 out per field: the parser reads names and numbers in place.
 //   Brace/Quoted  an expression `{…}` or a quoted string/expression `'…'` `"…"`
 //   DollarModel   CDL `$[model]`
 //   LParen/RParen the groups of `.model … (…)` and source functions `pulse(…)`
@@ -20,12 +22,50 @@
 
 import { createToken, Lexer, type CustomPatternMatcherReturn, type TokenType } from 'chevrotain';
 
-export interface FieldsPayload {
-  /** Field texts as written, backslash escapes resolved (`B_reg\[3\]` → `B_reg[3]`). */
-  words: string[];
-  /** Offset of each field in the tokenized text. */
-  offsets: number[];
+/** Positions of the fields of the text being tokenized, shared by all its Fields tokens. */
+export class FieldStore {
+  starts = new Int32Array(4096);
+  ends = new Int32Array(4096);
+  /** 1 where the field holds a backslash escape (`B_reg\[3\]`), to be resolved when read as a name. */
+  escaped = new Uint8Array(4096);
+  /** Position of the field's first `=` relative to its start, or -1 (found while scanning, so never searched again). */
+  equals = new Int32Array(4096);
+  /** For the first field of each run: the index after its last field. */
+  runEnds = new Int32Array(4096);
+  count = 0;
+
+  reset(): void {
+    this.count = 0;
+  }
+
+  push(start: number, end: number, equals: number, escaped: boolean): void {
+    if (this.count === this.starts.length) this.grow();
+    const i = this.count++;
+    this.starts[i] = start;
+    this.ends[i] = end;
+    this.equals[i] = equals;
+    this.escaped[i] = escaped ? 1 : 0;
+  }
+
+  private grow(): void {
+    const n = this.starts.length * 2;
+    const grow32 = (a: Int32Array) => {
+      const b = new Int32Array(n);
+      b.set(a);
+      return b;
+    };
+    this.starts = grow32(this.starts);
+    this.ends = grow32(this.ends);
+    this.runEnds = grow32(this.runEnds);
+    this.equals = grow32(this.equals);
+    const e = new Uint8Array(n);
+    e.set(this.escaped);
+    this.escaped = e;
+  }
 }
+
+/** The field positions of the most recent `tokenize` call (valid until the next one). */
+export const fieldStore = new FieldStore();
 
 // Characters that end a field. Everything else, control characters and U+FFFD
 // included, is a field character: junk reads as names and fails later with a
@@ -123,7 +163,8 @@ function match(text: string, offset: number, end: number, payload?: unknown): Cu
   return m;
 }
 
-function unescape(word: string): string {
+/** A field's text with backslash escapes resolved (`B_reg\[106\]` → `B_reg[106]`). */
+export function unescapeField(word: string): string {
   return word.replace(/\\(.)/gs, '$1');
 }
 
@@ -133,12 +174,13 @@ function matchFields(text: string, offset: number): CustomPatternMatcherReturn |
   let c = text.charCodeAt(i);
   if (ENDS_FIELD[c] || c === DOLLAR) return null;
   if (c === 42 /* * */ && atLineStart(text, offset)) return null;
-  const words: string[] = [];
-  const offsets: number[] = [];
+  const store = fieldStore;
+  const first = store.count;
   let lastEnd = i;
   for (;;) {
     const start = i;
     let escaped = false;
+    let equals = -1;
     while (i < n) {
       c = text.charCodeAt(i);
       if (c === BACKSLASH && i + 1 < n && text.charCodeAt(i + 1) !== LF && text.charCodeAt(i + 1) !== CR) {
@@ -147,11 +189,10 @@ function matchFields(text: string, offset: number): CustomPatternMatcherReturn |
         continue;
       }
       if (ENDS_FIELD[c]) break;
+      if (c === 61 && equals < 0) equals = i - start;
       i++;
     }
-    const word = text.substring(start, i);
-    words.push(escaped ? unescape(word) : word);
-    offsets.push(start);
+    store.push(start, i, equals, escaped);
     lastEnd = i;
     for (;;) {
       while (i < n && INLINE_SPACE[text.charCodeAt(i)]) i++;
@@ -167,7 +208,8 @@ function matchFields(text: string, offset: number): CustomPatternMatcherReturn |
     }
     if (i >= n || ENDS_FIELD[c] || c === DOLLAR) break;
   }
-  return match(text, offset, lastEnd, { words, offsets } satisfies FieldsPayload);
+  store.runEnds[first] = store.count;
+  return match(text, offset, lastEnd, first);
 }
 
 function fieldStartHints(): number[] {
@@ -280,6 +322,7 @@ export const netlistLexer = new Lexer(netlistTokens, {
 /** Tokenize one piece of text (a whole file or a chunk from `statementChunks`). */
 export function tokenize(text: string) {
   breaks.reset();
+  fieldStore.reset();
   return netlistLexer.tokenize(text);
 }
 

@@ -1,48 +1,116 @@
 // Node names of one body of statements (a file's top level, a `.subckt`, a `.lib`
-// section) interned to small integers as they are parsed, case-insensitively, with
-// the spelling and offset of their first mention. Statements refer to nodes by
-// these ids, so elaboration maps names once per body instead of once per mention.
+// section) interned to small integers as they are parsed, case-insensitively (ASCII
+// letters), with the spelling and offset of their first mention. Statements refer
+// to nodes by these ids, so elaboration maps names once per body instead of once
+// per mention, and a name seen before is recognised in the source text without
+// cutting out a new string.
 
 import type { SourceLoc } from './design';
 import { LocationCursor } from './source';
+import { foldAscii, hashRange, RangeIndex } from './text-hash';
 
 export class NameTable {
   /** Each name as first written; index = id. */
   readonly names: string[] = [];
   /** Offset (in the body's file) of each name's first mention. */
   readonly firstOffsets: number[] = [];
-  /** Lower-case name → id. */
-  readonly index = new Map<string, number>();
-  /** Spellings that are not all lower case → id (so that `VGND` needs one lookup, not a lower-casing and two). */
-  private readonly spellings = new Map<string, number>();
+  private readonly lookup = new RangeIndex((e) => this.names[e], true, 64);
+  private map: NameIndex | null = null;
   private locs: SourceLoc[] | null = null;
 
   get size(): number {
     return this.names.length;
   }
 
+  /** Id of the name written at `text[start, end)`, first mentioned at `offset` of its file. */
+  idAt(text: string, start: number, end: number, offset: number): number {
+    const h = hashRange(text, start, end, true);
+    const known = this.lookup.find(text, start, end, h);
+    if (known >= 0) return known;
+    return this.append(text.substring(start, end), h, offset);
+  }
+
+  /** Id of a name given as a string (escaped names, callers outside the parser). */
   id(name: string, offset: number): number {
-    let id = this.index.get(name);
-    if (id !== undefined) return id;
-    const lower = name.toLowerCase();
-    if (lower !== name) {
-      id = this.spellings.get(name) ?? this.index.get(lower);
-      if (id !== undefined) {
-        this.spellings.set(name, id);
-        return id;
-      }
-      this.spellings.set(name, this.names.length);
-    }
-    id = this.names.length;
+    return this.idAt(name, 0, name.length, offset);
+  }
+
+  private append(name: string, hash: number, offset: number): number {
+    const id = this.names.length;
     this.names.push(name);
     this.firstOffsets.push(offset);
-    this.index.set(lower, id);
+    this.lookup.add(hash);
+    this.locs = null;
     return id;
+  }
+
+  /** Lower-case name → id, as a Map that fills itself on first use (a million-net cell may never be asked). */
+  get index(): Map<string, number> {
+    return (this.map ??= new NameIndex(this.names));
   }
 
   /** First-mention locations, computed once. */
   locations(cursor: LocationCursor): SourceLoc[] {
     if (!this.locs) this.locs = this.firstOffsets.map((o) => cursor.at(o));
     return this.locs;
+  }
+}
+
+/** A Map from lower-case names to ids that fills itself from a (growing) name list whenever it is read. */
+class NameIndex extends Map<string, number> {
+  private filled = 0;
+
+  constructor(private readonly names: readonly string[]) {
+    super();
+  }
+
+  private fill(): this {
+    if (this.filled < this.names.length) this.fillTo(this.names.length);
+    return this;
+  }
+
+  private fillTo(n: number): void {
+    for (let id = this.filled; id < n; id++) {
+      const key = foldAscii(this.names[id]);
+      if (!super.has(key)) super.set(key, id);
+    }
+    this.filled = n;
+  }
+
+  override get(key: string): number | undefined {
+    return this.fill() && super.get(key);
+  }
+  override has(key: string): boolean {
+    return this.fill() && super.has(key);
+  }
+  override get size(): number {
+    return this.fill() && super.size;
+  }
+  override set(key: string, value: number): this {
+    this.fill();
+    return super.set(key, value);
+  }
+  override delete(key: string): boolean {
+    return this.fill() && super.delete(key);
+  }
+  override clear(): void {
+    this.fill();
+    super.clear();
+  }
+  override forEach(f: (value: number, key: string, map: Map<string, number>) => void, thisArg?: unknown): void {
+    this.fill();
+    super.forEach(f, thisArg);
+  }
+  override entries(): MapIterator<[string, number]> {
+    return this.fill() && super.entries();
+  }
+  override keys(): MapIterator<string> {
+    return this.fill() && super.keys();
+  }
+  override values(): MapIterator<number> {
+    return this.fill() && super.values();
+  }
+  override [Symbol.iterator](): MapIterator<[string, number]> {
+    return this.fill() && super[Symbol.iterator]();
   }
 }

@@ -4,6 +4,8 @@
 // Scale factors: T G MEG K M(milli) U N P F A, and MIL (25.4 µm). `M` is milli,
 // `MEG` is mega — `1M` is 0.001, the classic trap. The micro sign `µ` counts as `u`.
 
+import { hashRange, RangeIndex } from './text-hash';
+
 export type NumberResult = { ok: true; value: number } | { ok: false; reason: 'malformed' | 'non-finite' };
 
 const SCALE_EXPONENT: Record<string, number> = {
@@ -94,14 +96,27 @@ export function parseSpiceNumber(text: string): NumberResult {
 
 /** A memo of parsed literals: netlists repeat the same few hundred values millions of times. */
 export class NumberCache {
-  private readonly cache = new Map<string, NumberResult>();
+  private readonly keys: string[] = [];
+  private readonly results: NumberResult[] = [];
+  // Folding case is safe: scale factors and unit letters read the same in either case.
+  private readonly index = new RangeIndex((e) => this.keys[e], true, 1024);
 
-  parse(text: string): NumberResult {
-    let r = this.cache.get(text);
-    if (r === undefined) {
-      r = parseSpiceNumber(text);
-      if (this.cache.size < 200_000) this.cache.set(text, r);
+  /** The number written at `text[start, end)`. */
+  parseAt(text: string, start: number, end: number): NumberResult {
+    const h = hashRange(text, start, end, true);
+    const e = this.index.find(text, start, end, h);
+    if (e >= 0) return this.results[e];
+    const word = text.substring(start, end);
+    const r = parseSpiceNumber(word);
+    if (this.keys.length < 100_000) {
+      this.keys.push(word);
+      this.results.push(r);
+      this.index.add(h);
     }
     return r;
+  }
+
+  parse(text: string): NumberResult {
+    return this.parseAt(text, 0, text.length);
   }
 }

@@ -35,22 +35,14 @@ import {
   Stray,
   tokenize,
   Unclosed,
-  type FieldsPayload,
 } from './lexer';
 import { looksNumeric, NumberCache } from './numbers';
+import { Kind, Line } from './line';
 import { NameTable } from './names';
+import { hashRange, RangeIndex } from './text-hash';
 import { LocationCursor, lineStarts } from './source';
 
-const enum Kind {
-  Word = 0,
-  Brace = 1,
-  Quoted = 2,
-  DollarModel = 3,
-  Open = 4,
-  Close = 5,
-  Unclosed = 6,
-  Stray = 7,
-}
+
 
 /** SPICE element letters Keepwell does not read, and what they are. */
 const UNREAD_ELEMENTS: Record<string, string> = {
@@ -143,9 +135,8 @@ function netlistParser(): NetlistParser {
   return (sharedParser ??= new NetlistParser());
 }
 
-const EMPTY_WORDS: string[] = [];
-const EMPTY_OFFSETS: number[] = [];
 
+/** Builds one file's statements from decoded lines. */
 /** Builds one file's statements from decoded lines. */
 class FileBuilder {
   readonly statements: Statement[] = [];
@@ -153,99 +144,72 @@ class FileBuilder {
   readonly diagnostics: Diagnostic[] = [];
   private readonly stack: (SubcktStatement | LibSectionStatement)[] = [];
   private readonly cursor: LocationCursor;
-  private readonly numbers: NumberCache;
-  /** Offset of the piece being parsed within the file. */
+  private readonly models = new Interner();
+  /** The piece being parsed and its offset within the file. */
+  private piece = '';
   base = 0;
+  /** The line being collected, reset per line (decoding is synchronous and keeps no reference to it). */
+  private readonly line = new Line();
   private ended = false;
   private suppressed = 0;
   /** Values that could not be read so far; an element whose count changed is left out. */
   private valueErrors = 0;
   private control: SourceLoc | null = null;
-  /** Index of the last statement-producing line's first item (for `.ends` end offsets). */
+  /** End offset of the line being decoded (for `.ends`, the end of a definition's text). */
   private lineEnd = 0;
-
-  // The line being collected: item texts, offsets relative to `base`, kinds (null: all words).
-  private words: string[] = EMPTY_WORDS;
-  private offs: number[] = EMPTY_OFFSETS;
-  private kinds: Kind[] | null = null;
 
   constructor(
     readonly path: string,
     readonly text: string,
     readonly starts: number[],
-    numbers: NumberCache,
+    private readonly numbers: NumberCache,
   ) {
     this.cursor = new LocationCursor(path, starts);
-    this.numbers = numbers;
+  }
+
+  /** Start a new piece of the file: positions of its tokens are relative to `base`. */
+  beginPiece(piece: string, base: number): void {
+    this.piece = piece;
+    this.base = base;
+    this.line.clear(piece, base);
   }
 
   // ---- collecting items ----
 
   fields(t: IToken): void {
-    const p = t.payload as FieldsPayload;
-    if (this.words.length === 0) {
-      this.words = p.words;
-      this.offs = p.offsets;
-      this.kinds = null;
-      return;
-    }
-    this.materialiseKinds();
-    for (let i = 0; i < p.words.length; i++) {
-      this.words.push(p.words[i]);
-      this.offs.push(p.offsets[i]);
-      this.kinds!.push(Kind.Word);
-    }
+    this.line.addFields(t.payload as number);
   }
 
   item(kind: Kind, t: IToken): void {
-    if (this.words === EMPTY_WORDS) {
-      this.words = [];
-      this.offs = [];
-      this.kinds = [];
-    } else this.materialiseKinds();
-    let text = t.image;
-    let offset = t.startOffset;
+    let start = t.startOffset;
+    let end = t.startOffset + t.image.length;
     if (kind === Kind.Brace || kind === Kind.Quoted) {
-      text = text.slice(1, -1);
-      offset++;
+      start++;
+      end--;
     } else if (kind === Kind.DollarModel) {
-      text = text.slice(2, -1);
-      offset += 2;
+      start += 2;
+      end--;
     }
-    this.words.push(text);
-    this.offs.push(offset);
-    this.kinds!.push(kind);
-  }
-
-  private materialiseKinds(): void {
-    if (this.kinds) return;
-    if (this.words === EMPTY_WORDS) {
-      this.words = [];
-      this.offs = [];
-    }
-    this.kinds = new Array(this.words.length).fill(Kind.Word);
+    this.line.addItem(kind, start, end);
   }
 
   endLine(directive: IToken | undefined): void {
-    const words = this.words;
-    const offs = this.offs;
-    const kinds = this.kinds;
-    this.words = EMPTY_WORDS;
-    this.offs = EMPTY_OFFSETS;
-    this.kinds = null;
-    if (this.ended) return;
-    if (directive) {
-      this.directive(directive, words, offs, kinds);
-      return;
+    const line = this.line;
+    try {
+      if (this.ended || (line.length === 0 && !directive)) return;
+      if (directive) {
+        if (!this.control) this.directive(directive, line);
+        return;
+      }
+      if (this.control) {
+        if (line.is(0, '.endc')) this.control = null;
+        return;
+      }
+      this.lineEnd = line.lineEnd();
+      this.statement(line);
+    } finally {
+      line.clear(this.piece, this.base);
     }
-    if (words.length === 0) return;
-    const line = new Line(words, offs, kinds, this.base);
-    if (this.control) {
-      if (line.isWord(0) && words[0].toLowerCase() === '.endc') this.control = null;
-      return;
-    }
-    this.lineEnd = line.end();
-    this.statement(line);
   }
 
   // ---- diagnostics and locations ----
@@ -271,21 +235,22 @@ class FileBuilder {
     this.report('warning', code, offset, message, hint);
   }
 
-  private readonly names = new Map<string, string>();
-
-  /** One string per distinct model or cell name: a million lines name `nch` a million times. */
-  intern(name: string): string {
-    const known = this.names.get(name);
-    if (known !== undefined) return known;
-    // Bounded: frequent names (rails, clocks, models) arrive early; a huge table of one-off names only costs time.
-    if (this.names.size < 20_000) this.names.set(name, name);
-    return name;
-  }
-
   /** The node table of the body being read. */
   private nets(): NameTable {
     const top = this.stack[this.stack.length - 1];
     return top ? top.nets : this.topNets;
+  }
+
+  /** Net id of field `i` in the current body, read in place. */
+  private node(line: Line, i: number, nets: NameTable): number {
+    if (line.escaped(i)) return nets.id(line.word(i), line.at(i));
+    return nets.idAt(this.piece, line.start(i), line.end(i), line.at(i));
+  }
+
+  /** A model or cell name: one string per distinct spelling. */
+  private name(line: Line, i: number): string {
+    if (line.escaped(i)) return line.word(i);
+    return this.models.intern(this.piece, line.start(i), line.end(i));
   }
 
   private add(statement: Statement): void {
@@ -300,10 +265,9 @@ class FileBuilder {
       this.itemProblem(line, 0);
       return;
     }
-    const first = line.words[0];
-    const c = first.charCodeAt(0) | 0x20;
-    if (first.charCodeAt(0) === 46 /* . */) return this.command(line, first.toLowerCase());
-    switch (c) {
+    const c0 = line.charCode(0);
+    if (c0 === 46 /* . */) return this.command(line);
+    switch (c0 | 0x20) {
       case 109: // m
         return this.mosfet(line);
       case 120: // x
@@ -319,11 +283,12 @@ class FileBuilder {
       case 100: // d
         return this.diode(line);
     }
-    if (first.charCodeAt(0) === 43 /* + */) {
+    const first = line.word(0);
+    if (c0 === 43 /* + */) {
       this.error('stray-continuation', line.at(0), 'a "+" continuation line with no statement before it to continue', 'join it to the statement it belongs to, or remove the "+"');
       return;
     }
-    const what = UNREAD_ELEMENTS[String.fromCharCode(c)];
+    const what = UNREAD_ELEMENTS[String.fromCharCode(c0 | 0x20)];
     const shown = first.length > 24 ? first.slice(0, 24) + '…' : first;
     if (what) {
       this.error('unknown-element', line.at(0), `element "${shown}" is a ${what}, which Keepwell does not read`, 'Keepwell reads M, X, R, C, V, I and D elements; remove the element or move it to a simulation-only file');
@@ -336,56 +301,64 @@ class FileBuilder {
   private positionalEnd(line: Line, from: number): number {
     let i = from;
     for (; i < line.length; i++) {
-      if (line.kind(i) !== Kind.Word) continue;
-      const w = line.words[i];
-      if (w.indexOf('=') >= 0) {
-        return w.charCodeAt(0) === 61 /* = */ && i > from ? i - 1 : i;
-      }
-      if (w.length === 7 && w.toLowerCase() === 'params:') return i;
+      if (!line.isWord(i)) continue;
+      const eq = line.eqIndex(i);
+      if (eq >= 0) return eq === 0 && i > from ? i - 1 : i;
+      if (line.is(i, 'params:')) return i;
     }
     return i;
   }
 
   private mosfet(line: Line): void {
     const end = this.positionalEnd(line, 1);
-    const name = line.words[0];
     const form = 'an M element is: M<name> drain gate source bulk model [w=… l=…]';
     const positional = end - 1;
     if (positional >= 5 && !line.allWords(1, 6)) {
       for (let i = 1; i < 6; i++) if (!line.isWord(i)) return this.itemProblem(line, i);
     }
     if (positional === 4) {
-      this.error('missing-model', line.at(0), `${name}: four fields where drain, gate, source, bulk and a model name are needed; is the model name (or the bulk node) missing?`, form);
+      this.error('missing-model', line.at(0), `${line.word(0)}: four fields where drain, gate, source, bulk and a model name are needed; is the model name (or the bulk node) missing?`, form);
       return;
     }
     if (positional < 4) {
-      this.error('missing-nodes', line.at(0), `${name}: an M element needs drain, gate, source and bulk nodes and a model name (found ${positional} field${positional === 1 ? '' : 's'})`, form);
+      this.error('missing-nodes', line.at(0), `${line.word(0)}: an M element needs drain, gate, source and bulk nodes and a model name (found ${positional} field${positional === 1 ? '' : 's'})`, form);
       return;
     }
-    const words = line.words;
     const failures = this.valueErrors;
-    const sizes: { w?: Value; l?: Value; m?: Value; nf?: Value } = {};
+    let w: Value | undefined;
+    let l: Value | undefined;
+    let m: Value | undefined;
+    let nf: Value | undefined;
     let extra: Param[] | undefined;
     // Positional flags after the model (`off`) are simulator hints: skipped by paramAt.
-    const params: Param[] = [];
     for (let i = end; i < line.length; ) {
-      const w = words[i];
-      const eq = line.isWord(i) ? w.indexOf('=') : -1;
-      if (eq === 1 || eq === 2) {
+      const eq = line.isWord(i) ? line.eqIndex(i) : -1;
+      if ((eq === 1 || eq === 2) && eq < line.size(i) - 1) {
         // Fast path for the sizes every line carries: w=…, l=…, m=…, nf=…
-        const c = w.charCodeAt(0) | 0x20;
-        const key = eq === 1 ? (c === 119 ? 'w' : c === 108 ? 'l' : c === 109 ? 'm' : null) : c === 110 && (w.charCodeAt(1) | 0x20) === 102 ? 'nf' : null;
-        if (key && eq < w.length - 1) {
-          sizes[key] = this.wordValue(w.slice(eq + 1), line.at(i) + eq + 1);
+        const c = line.charCode(i) | 0x20;
+        if (eq === 1 && (c === 119 || c === 108 || c === 109)) {
+          const v = this.valueIn(line, i, 2);
+          if (c === 119) w = v;
+          else if (c === 108) l = v;
+          else m = v;
+          i++;
+          continue;
+        }
+        if (eq === 2 && c === 110 && (line.charCode(i, 1) | 0x20) === 102) {
+          nf = this.valueIn(line, i, 3);
           i++;
           continue;
         }
       }
+      const params: Param[] = [];
       i = this.paramAt(line, i, params, false);
-    }
-    for (const p of params) {
-      if (p.name === 'w' || p.name === 'l' || p.name === 'm' || p.name === 'nf') sizes[p.name] = p.value;
-      else (extra ??= []).push(p);
+      for (const p of params) {
+        if (p.name === 'w') w = p.value;
+        else if (p.name === 'l') l = p.value;
+        else if (p.name === 'm') m = p.value;
+        else if (p.name === 'nf') nf = p.value;
+        else (extra ??= []).push(p);
+      }
     }
     // A device with an unreadable value is left out (the value's diagnostic says why).
     if (this.valueErrors !== failures) return;
@@ -393,17 +366,17 @@ class FileBuilder {
     // Every field initialised here, so that all statements share one object shape.
     const stmt: MosStatement = {
       kind: 'mos',
-      name,
-      drain: nets.id(words[1], line.at(1)),
-      gate: nets.id(words[2], line.at(2)),
-      source: nets.id(words[3], line.at(3)),
-      bulk: nets.id(words[4], line.at(4)),
-      model: this.intern(words[5]),
+      name: line.word(0),
+      drain: this.node(line, 1, nets),
+      gate: this.node(line, 2, nets),
+      source: this.node(line, 3, nets),
+      bulk: this.node(line, 4, nets),
+      model: this.name(line, 5),
       modelOffset: line.at(5),
-      w: sizes.w,
-      l: sizes.l,
-      m: sizes.m,
-      nf: sizes.nf,
+      w,
+      l,
+      m,
+      nf,
       extra,
       loc: this.loc(line.at(0)),
     };
@@ -412,42 +385,34 @@ class FileBuilder {
 
   private instance(line: Line): void {
     const end = this.positionalEnd(line, 1);
-    const name = line.words[0];
+    const name = line.word(0);
     // CDL writes `nodes / cell` (or `nodes /cell`); names such as x1/x2/n5 never start with "/".
     let slash = -1;
     for (let i = 1; i < end; i++) {
-      if (line.isWord(i) && line.words[i].charCodeAt(0) === 47) {
+      if (line.isWord(i) && line.charCode(i) === 47) {
         slash = i;
         break;
       }
     }
     let nodeEnd: number;
-    let cell: string | undefined;
-    let cellOffset: number;
+    let cellIndex = -1;
+    let cellSkip = 0;
     if (slash >= 0) {
       nodeEnd = slash;
-      let cellIndex = slash;
-      if (line.words[slash].length > 1) {
-        cell = line.words[slash].slice(1);
-        cellOffset = line.at(slash) + 1;
-      } else if (slash + 1 < end && line.isWord(slash + 1)) {
-        cellIndex = slash + 1;
-        cell = line.words[cellIndex];
-        cellOffset = line.at(cellIndex);
-      } else cellOffset = line.at(slash);
-      if (cell && cellIndex + 1 < end) {
+      if (line.size(slash) > 1) {
+        cellIndex = slash;
+        cellSkip = 1;
+      } else if (slash + 1 < end && line.isWord(slash + 1)) cellIndex = slash + 1;
+      if (cellIndex >= 0 && cellIndex + 1 < end) {
         this.error('syntax', line.at(cellIndex + 1), `${name}: unexpected ${line.describe(cellIndex + 1)} after the subcircuit name`);
         return;
       }
     } else {
       nodeEnd = end - 1;
-      if (end - 1 >= 1 && line.isWord(end - 1)) {
-        cell = line.words[end - 1];
-        cellOffset = line.at(end - 1);
-      } else cellOffset = line.at(0);
+      if (end - 1 >= 1 && line.isWord(end - 1)) cellIndex = end - 1;
     }
-    if (!cell) {
-      this.error('missing-subckt-name', cellOffset, `${name}: no subcircuit name`, 'an X element is: X<name> node… subckt [name=value…]');
+    if (cellIndex < 0) {
+      this.error('missing-subckt-name', slash >= 0 ? line.at(slash) : line.at(0), `${name}: no subcircuit name`, 'an X element is: X<name> node… subckt [name=value…]');
       return;
     }
     for (let i = 1; i < nodeEnd; i++) {
@@ -461,13 +426,14 @@ class FileBuilder {
     if (this.valueErrors !== failures) return;
     const nets = this.nets();
     const nodes: number[] = new Array(Math.max(0, nodeEnd - 1));
-    for (let i = 1; i < nodeEnd; i++) nodes[i - 1] = nets.id(line.words[i], line.at(i));
+    for (let i = 1; i < nodeEnd; i++) nodes[i - 1] = this.node(line, i, nets);
+    const cell = cellSkip ? line.word(cellIndex).slice(cellSkip) : this.name(line, cellIndex);
     const stmt: InstanceStatement = {
       kind: 'instance',
       name,
       nodes,
-      cell: this.intern(cell),
-      cellOffset,
+      cell,
+      cellOffset: line.at(cellIndex) + cellSkip,
       params,
       loc: this.loc(line.at(0)),
     };
@@ -475,9 +441,9 @@ class FileBuilder {
   }
 
   private twoTerminal(line: Line, kind: 'res' | 'cap'): void {
-    const name = line.words[0];
+    const name = line.word(0);
     const what = kind === 'res' ? 'resistor' : 'capacitor';
-    if (line.length < 3 || !line.allWords(1, 3) || line.words[1].indexOf('=') >= 0 || line.words[2].indexOf('=') >= 0) {
+    if (line.length < 3 || !line.allWords(1, 3) || line.eqIndex(1) >= 0 || line.eqIndex(2) >= 0) {
       this.error('missing-nodes', line.at(0), `${name}: a ${what} needs two nodes`, `a ${what} is: ${kind === 'res' ? 'R' : 'C'}<name> node node value [model]`);
       return;
     }
@@ -489,9 +455,9 @@ class FileBuilder {
     // Positional: a value and/or a model name, in either order (`R1 a b 1k rpoly`, `r1 a b short`), or CDL `$[model]`.
     for (let i = 3; i < end; i++) {
       const k = line.kind(i);
-      const numeric = k === Kind.Brace || k === Kind.Quoted || (k === Kind.Word && looksNumeric(line.words[i]));
+      const numeric = k === Kind.Brace || k === Kind.Quoted || (k === Kind.Word && this.numericAt(line, i, 0));
       if (k === Kind.DollarModel || (k === Kind.Word && !numeric)) {
-        if (model === undefined) model = line.words[i];
+        if (model === undefined) model = k === Kind.DollarModel ? line.word(i) : this.name(line, i);
       } else if (numeric) {
         if (value === undefined) {
           value = this.value(line, i);
@@ -508,15 +474,16 @@ class FileBuilder {
     }
     if (this.valueErrors !== failures) return;
     const nets = this.nets();
-    const a = nets.id(line.words[1], line.at(1));
-    const b = nets.id(line.words[2], line.at(2));
+    const a = this.node(line, 1, nets);
+    const b = this.node(line, 2, nets);
     this.add({ kind, name, a, b, value, valueOffset, model, loc: this.loc(line.at(0)) });
   }
 
   private source(line: Line, kind: 'vsrc' | 'isrc'): void {
-    const name = line.words[0];
+    const name = line.word(0);
+    const form = `a source is: ${kind === 'vsrc' ? 'V' : 'I'}<name> node+ node- [DC] value [AC mag [phase]] [pulse(…)|sin(…)|pwl(…)|exp(…)]`;
     if (line.length < 3 || !line.allWords(1, 3)) {
-      this.error('missing-nodes', line.at(0), `${name}: a source needs two nodes`, `a source is: ${kind === 'vsrc' ? 'V' : 'I'}<name> node+ node- [DC] value [AC …] [pulse(…)]`);
+      this.error('missing-nodes', line.at(0), `${name}: a source needs two nodes`, form);
       return;
     }
     const failures = this.valueErrors;
@@ -525,37 +492,37 @@ class FileBuilder {
     let i = 3;
     while (i < line.length) {
       const k = line.kind(i);
-      const w = line.words[i];
       if (k === Kind.Word) {
-        const lw = w.toLowerCase();
-        if (lw === 'dc' && i + 1 < line.length) {
+        if (line.is(i, 'dc') && i + 1 < line.length) {
           dc = this.value(line, i + 1);
           i += 2;
           continue;
         }
-        if (lw.startsWith('dc=')) {
-          dc = w.length > 3 ? this.wordValue(w.slice(3), line.at(i) + 3) : i + 1 < line.length ? this.value(line, ++i) : undefined;
+        if (line.eqIndex(i) === 2 && (line.charCode(i) | 0x20) === 100 && (line.charCode(i, 1) | 0x20) === 99) {
+          // dc=1.8 or dc= 1.8
+          if (line.size(i) > 3) dc = this.valueIn(line, i, 3);
+          else if (i + 1 < line.length) dc = this.value(line, ++i);
           i++;
           continue;
         }
-        if (lw === 'ac') {
+        if (line.is(i, 'ac')) {
           // AC magnitude and phase: skip the numbers that follow.
           i++;
-          while (i < line.length && line.kind(i) !== Kind.Open && (line.kind(i) !== Kind.Word || looksNumeric(line.words[i]))) i++;
+          while (i < line.length && line.kind(i) !== Kind.Open && (line.kind(i) !== Kind.Word || this.numericAt(line, i, 0))) i++;
           continue;
         }
+        const lw = line.word(i).toLowerCase();
         if (SOURCE_FUNCTIONS.has(lw)) {
           // A transient function, with or without parentheses: the rest of the line is its arguments.
           waveform = lw;
-          i = line.length;
           break;
         }
-        if (looksNumeric(w)) {
+        if (this.numericAt(line, i, 0)) {
           if (dc === undefined) dc = this.value(line, i);
           i++;
           continue;
         }
-        this.error('syntax', line.at(i), `${name}: unexpected "${w.slice(0, 24)}" in a source`, `a source is: ${kind === 'vsrc' ? 'V' : 'I'}<name> node+ node- [DC] value [AC mag [phase]] [pulse(…)|sin(…)|pwl(…)|exp(…)]`);
+        this.error('syntax', line.at(i), `${name}: unexpected "${line.word(i).slice(0, 24)}" in a source`, form);
         this.valueErrors++;
         i++;
         continue;
@@ -567,26 +534,27 @@ class FileBuilder {
     this.checkParentheses(line);
     if (this.valueErrors !== failures) return;
     const nets = this.nets();
-    const pos = nets.id(line.words[1], line.at(1));
-    const neg = nets.id(line.words[2], line.at(2));
+    const pos = this.node(line, 1, nets);
+    const neg = this.node(line, 2, nets);
     this.add({ kind, name, pos, neg, dc, ...(waveform ? { waveform } : {}), loc: this.loc(line.at(0)) });
   }
 
   private diode(line: Line): void {
-    const name = line.words[0];
-    if (line.length < 4 || !line.allWords(1, 4) || line.words[3].indexOf('=') >= 0) {
+    const name = line.word(0);
+    if (line.length < 4 || !line.allWords(1, 4) || line.eqIndex(3) >= 0) {
       this.error(line.length >= 3 ? 'missing-model' : 'missing-nodes', line.at(0), `${name}: a diode needs anode, cathode and a model name`, 'a diode is: D<name> anode cathode model [area]');
       return;
     }
     const nets = this.nets();
-    const anode = nets.id(line.words[1], line.at(1));
-    const cathode = nets.id(line.words[2], line.at(2));
-    this.add({ kind: 'diode', name, anode, cathode, model: this.intern(line.words[3]), loc: this.loc(line.at(0)) });
+    const anode = this.node(line, 1, nets);
+    const cathode = this.node(line, 2, nets);
+    this.add({ kind: 'diode', name, anode, cathode, model: this.name(line, 3), loc: this.loc(line.at(0)) });
   }
 
   // ---- dot commands ----
 
-  private command(line: Line, cmd: string): void {
+  private command(line: Line): void {
+    const cmd = line.word(0).toLowerCase();
     switch (cmd) {
       case '.subckt':
       case '.macro':
@@ -602,7 +570,7 @@ class FileBuilder {
         return this.model(line);
       case '.global': {
         const names: string[] = [];
-        for (let i = 1; i < line.length; i++) if (line.isWord(i)) names.push(line.words[i]);
+        for (let i = 1; i < line.length; i++) if (line.isWord(i)) names.push(line.word(i));
         this.add({ kind: 'global', names, loc: this.loc(line.at(0)) });
         return;
       }
@@ -614,10 +582,10 @@ class FileBuilder {
       case '.include':
       case '.inc': {
         if (line.length < 2 || (line.kind(1) !== Kind.Word && line.kind(1) !== Kind.Quoted)) {
-          this.error('missing-path', line.at(0), `${line.words[0]}: no file name`, 'write .include "relative/path"');
+          this.error('missing-path', line.at(0), `${line.word(0)}: no file name`, 'write .include "relative/path"');
           return;
         }
-        this.add({ kind: 'include', path: line.words[1], pathOffset: line.at(1), loc: this.loc(line.at(0)) });
+        this.add({ kind: 'include', path: line.word(1), pathOffset: line.at(1), loc: this.loc(line.at(0)) });
         return;
       }
       case '.lib':
@@ -642,35 +610,37 @@ class FileBuilder {
         return;
     }
     if (IGNORED_COMMANDS.has(cmd)) return;
-    this.warning('unknown-command', line.at(0), `unknown dot command "${line.words[0].slice(0, 24)}" ignored`);
+    this.warning('unknown-command', line.at(0), `unknown dot command "${line.word(0).slice(0, 24)}" ignored`);
   }
 
   private subckt(line: Line): void {
-    if (line.length < 2 || !line.isWord(1) || line.words[1].indexOf('=') >= 0) {
-      this.error('missing-name', line.at(0), `${line.words[0]} without a subcircuit name`, 'write .subckt NAME port… [params: name=value…]');
+    if (line.length < 2 || !line.isWord(1) || line.eqIndex(1) >= 0) {
+      this.error('missing-name', line.at(0), `${line.word(0)} without a subcircuit name`, 'write .subckt NAME port… [params: name=value…]');
       // Still open a block so that the matching .ends does not read as stray.
       this.stack.push({ kind: 'subckt', name: '', nameOffset: line.at(0), ports: [], portOffsets: [], portIds: [], params: [], body: [], nets: new NameTable(), loc: this.loc(line.at(0)), start: line.at(0), end: line.at(0), closed: false });
       return;
     }
     const end = this.positionalEnd(line, 2);
+    const nets = new NameTable();
     const ports: string[] = [];
     const portOffsets: number[] = [];
+    const portIds: number[] = [];
     for (let i = 2; i < end; i++) {
       if (!line.isWord(i)) {
         this.itemProblem(line, i);
         continue;
       }
-      ports.push(line.words[i]);
+      ports.push(line.word(i));
       portOffsets.push(line.at(i));
+      portIds.push(this.node(line, i, nets));
     }
-    const nets = new NameTable();
     const stmt: SubcktStatement = {
       kind: 'subckt',
-      name: line.words[1],
+      name: line.word(1),
       nameOffset: line.at(1),
       ports,
       portOffsets,
-      portIds: ports.map((p, i) => nets.id(p, portOffsets[i])),
+      portIds,
       params: this.params(line, end),
       body: [],
       nets,
@@ -686,16 +656,17 @@ class FileBuilder {
   private ends(line: Line): void {
     const top = this.stack[this.stack.length - 1];
     if (!top || top.kind !== 'subckt') {
-      this.error('stray-ends', line.at(0), `${line.words[0]} without a matching .subckt`, 'remove it, or add the .subckt line it should close');
+      this.error('stray-ends', line.at(0), `${line.word(0)} without a matching .subckt`, 'remove it, or add the .subckt line it should close');
       return;
     }
     this.stack.pop();
     top.closed = true;
     top.end = this.lineEnd;
     if (line.length > 1 && line.isWord(1)) {
-      top.endName = line.words[1];
-      if (top.name && line.words[1].toLowerCase() !== top.name.toLowerCase()) {
-        this.warning('ends-mismatch', line.at(1), `.ends ${line.words[1]} closes .subckt ${top.name}`, `write .ends ${top.name}, or check that the definitions are nested as intended`);
+      const endName = line.word(1);
+      top.endName = endName;
+      if (top.name && endName.toLowerCase() !== top.name.toLowerCase()) {
+        this.warning('ends-mismatch', line.at(1), `.ends ${endName} closes .subckt ${top.name}`, `write .ends ${top.name}, or check that the definitions are nested as intended`);
       }
     }
   }
@@ -709,16 +680,16 @@ class FileBuilder {
     }
     if (args.length === 1 && line.kind(args[0]) === Kind.Word) {
       // `.lib NAME` opens a section definition.
-      const section: LibSectionStatement = { kind: 'libsection', name: line.words[args[0]].toLowerCase(), body: [], nets: new NameTable(), loc: this.loc(line.at(0)), closed: false };
+      const section: LibSectionStatement = { kind: 'libsection', name: line.word(args[0]).toLowerCase(), body: [], nets: new NameTable(), loc: this.loc(line.at(0)), closed: false };
       this.add(section);
       this.stack.push(section);
       return;
     }
     this.add({
       kind: 'lib',
-      path: line.words[args[0]],
+      path: line.word(args[0]),
       pathOffset: line.at(args[0]),
-      section: args.length > 1 ? line.words[args[1]].toLowerCase() : '',
+      section: args.length > 1 ? line.word(args[1]).toLowerCase() : '',
       loc: this.loc(line.at(0)),
     });
   }
@@ -729,20 +700,18 @@ class FileBuilder {
       return;
     }
     this.checkParentheses(line);
-    this.add({ kind: 'model', name: line.words[1], type: line.words[2].toLowerCase(), params: this.params(line, 3, true), loc: this.loc(line.at(0)) });
+    this.add({ kind: 'model', name: line.word(1), type: line.word(2).toLowerCase(), params: this.params(line, 3, true), loc: this.loc(line.at(0)) });
   }
 
   // ---- CDL directives ----
 
-  private directive(token: IToken, words: string[], offs: number[], kinds: Kind[] | null): void {
-    if (this.control) return;
-    const line = new Line(words, offs, kinds, this.base);
+  private directive(token: IToken, line: Line): void {
     const kind = token.image.slice(2).toLowerCase();
     const at = this.base + token.startOffset;
     if (kind === 'pininfo') {
       const entries: PinInfoEntry[] = [];
       for (let i = 0; i < line.length; i++) {
-        const w = line.words[i];
+        const w = line.word(i);
         const colon = w.lastIndexOf(':');
         const dir = colon > 0 ? PIN_DIRECTIONS[w.slice(colon + 1).toLowerCase()] : undefined;
         if (!dir) {
@@ -753,7 +722,7 @@ class FileBuilder {
       }
       this.add({ kind: 'pininfo', entries, loc: this.loc(at) });
     } else if (kind === 'scale') {
-      const w = (line.words[0] ?? '').toLowerCase();
+      const w = line.length ? line.word(0).toLowerCase() : '';
       const named: Record<string, number> = { meter: 1, meters: 1, metre: 1, micron: 1e-6, microns: 1e-6, um: 1e-6, nanometer: 1e-9, nm: 1e-9 };
       let value = named[w];
       if (value === undefined && w && looksNumeric(w)) {
@@ -761,12 +730,13 @@ class FileBuilder {
         if (r.ok && r.value > 0) value = r.value;
       }
       if (value === undefined) {
-        this.warning('bad-scale', line.length ? line.at(0) : at, `*.SCALE "${line.words[0] ?? ''}" is not METER, MICRON or a number; ignored`);
+        this.warning('bad-scale', line.length ? line.at(0) : at, `*.SCALE "${w}" is not METER, MICRON or a number; ignored`);
         return;
       }
       this.add({ kind: 'scale', value, loc: this.loc(at) });
     } else {
-      const names = line.words.filter((_, i) => line.isWord(i));
+      const names: string[] = [];
+      for (let i = 0; i < line.length; i++) if (line.isWord(i)) names.push(line.word(i));
       this.add({ kind: 'global', names, loc: this.loc(at) });
     }
   }
@@ -777,7 +747,7 @@ class FileBuilder {
     this.valueErrors++;
     const k = line.kind(i);
     if (k === Kind.Unclosed) {
-      const open = line.words[i][0];
+      const open = this.piece[line.start(i)];
       this.error('unclosed-expression', line.at(i), `${open === '{' ? 'brace' : 'quote'} opened here is not closed on this line`, `close it with ${open === '{' ? '}' : open}`);
     } else if (k === Kind.Stray) {
       this.error('syntax', line.at(i), 'unexpected "}"', 'remove it, or open the expression with "{"');
@@ -804,30 +774,45 @@ class FileBuilder {
     if (depth > 0) this.error('unbalanced-parenthesis', line.at(lastOpen), '"(" is not closed', 'add the closing ")"');
   }
 
+  /** Whether field `i` from character `from` on starts like a number. */
+  private numericAt(line: Line, i: number, from: number): boolean {
+    const s = line.start(i) + from;
+    const e = line.end(i);
+    let p = s;
+    let c = this.piece.charCodeAt(p);
+    if (c === 43 || c === 45) c = this.piece.charCodeAt(++p);
+    if (c === 46) c = this.piece.charCodeAt(++p);
+    return p < e && c >= 48 && c <= 57;
+  }
+
   /** The value of item `i`: a number, an expression, or a bare name. */
   private value(line: Line, i: number): Value | undefined {
     const k = line.kind(i);
-    if (k === Kind.Brace || k === Kind.Quoted) return this.expression(line.words[i], line.at(i), false);
-    if (k === Kind.Word) return this.wordValue(line.words[i], line.at(i));
+    if (k === Kind.Brace || k === Kind.Quoted) return this.expression(line.word(i), line.at(i), false);
+    if (k === Kind.Word) return this.valueIn(line, i, 0);
     this.itemProblem(line, i);
     return undefined;
+  }
+
+  /** The value written in field `i` from character `from` on (after `name=`), read in place when it is a number. */
+  private valueIn(line: Line, i: number, from: number): Value | undefined {
+    if (!line.escaped(i) && this.numericAt(line, i, from)) {
+      const r = this.numbers.parseAt(this.piece, line.start(i) + from, line.end(i));
+      if (r.ok) return r.value;
+    }
+    return this.wordValue(from ? line.word(i).slice(from) : line.word(i), line.at(i) + from);
   }
 
   private wordValue(word: string, offset: number): Value | undefined {
     if (looksNumeric(word)) {
       const r = this.numbers.parse(word);
       if (r.ok) return r.value;
+      // `2*w` without braces: an expression after all.
+      const e = compileExpression(word);
+      if (r.reason === 'malformed' && e.ok && /[*/^+\-()]/.test(word.slice(1))) return { kind: 'expr', text: word, compiled: e.expr, offset, bare: false };
       this.valueErrors++;
-      if (r.reason === 'non-finite') this.error('non-finite-number', offset, `number "${word}" is not finite`, 'use a value within double-precision range');
-      else {
-        // `2*w` without braces: an expression after all.
-        const e = compileExpression(word);
-        if (e.ok && /[*/^+\-()]/.test(word.slice(1))) {
-          this.valueErrors--;
-          return { kind: 'expr', text: word, compiled: e.expr, offset, bare: false };
-        }
-        this.error('malformed-number', offset, `malformed number "${word.slice(0, 40)}"`, 'numbers are digits with an optional exponent and scale factor: 1.5u, 10fF, 2e-6, 1MEG');
-      }
+      if (r.reason === 'non-finite') this.error('non-finite-number', offset, `number "${word.slice(0, 40)}" is not finite`, 'use a value within double-precision range');
+      else this.error('malformed-number', offset, `malformed number "${word.slice(0, 40)}"`, 'numbers are digits with an optional exponent and scale factor: 1.5u, 10fF, 2e-6, 1MEG');
       return undefined;
     }
     const e = compileExpression(word);
@@ -852,7 +837,7 @@ class FileBuilder {
    */
   private params(line: Line, from: number, lenient = false): Param[] {
     const out: Param[] = [];
-    const bareNames = lenient || line.words[0].charCodeAt(0) === 46;
+    const bareNames = lenient || line.charCode(0) === 46;
     for (let i = from; i < line.length; ) i = this.paramAt(line, i, out, bareNames, lenient);
     return out;
   }
@@ -866,42 +851,41 @@ class FileBuilder {
       if (!lenient || k === Kind.Unclosed || k === Kind.Stray) this.itemProblem(line, i);
       return i + 1;
     }
-    const w = line.words[i];
-    const eq = w.indexOf('=');
+    const eq = line.eqIndex(i);
     if (eq < 0) {
-      if (w.length === 7 && w.toLowerCase() === 'params:') return i + 1;
+      if (line.is(i, 'params:')) return i + 1;
+      const key = line.word(i).toLowerCase();
       // `name = value` or `name =value`
-      if (i + 1 < n && line.isWord(i + 1) && line.words[i + 1].charCodeAt(0) === 61) {
-        const next = line.words[i + 1];
-        if (next.length > 1) {
-          out.push({ name: w.toLowerCase(), value: this.wordValue(next.slice(1), line.at(i + 1) + 1), offset: line.at(i) });
+      if (i + 1 < n && line.isWord(i + 1) && line.charCode(i + 1) === 61) {
+        if (line.size(i + 1) > 1) {
+          out.push({ name: key, value: this.valueIn(line, i + 1, 1), offset: line.at(i) });
           return i + 2;
         }
         if (i + 2 < n) {
-          out.push({ name: w.toLowerCase(), value: this.value(line, i + 2), offset: line.at(i) });
+          out.push({ name: key, value: this.value(line, i + 2), offset: line.at(i) });
           return i + 3;
         }
-        this.error('missing-value', line.at(i + 1), `no value after "${w}="`);
+        this.error('missing-value', line.at(i + 1), `no value after "${line.word(i)}="`);
         return i + 2;
       }
       // A name without a value: a declared parameter (`.subckt … params: w`) or a flag (`.option post`, `off`).
-      if (bareNames) out.push({ name: w.toLowerCase(), value: undefined, offset: line.at(i) });
+      if (bareNames) out.push({ name: key, value: undefined, offset: line.at(i) });
       return i + 1;
     }
     if (eq === 0) {
-      this.error('missing-name', line.at(i), `"=" without a parameter name before it`);
+      this.error('missing-name', line.at(i), '"=" without a parameter name before it');
       return i + 1;
     }
-    const name = w.slice(0, eq).toLowerCase();
-    if (eq < w.length - 1) {
-      out.push({ name, value: this.wordValue(w.slice(eq + 1), line.at(i) + eq + 1), offset: line.at(i) });
+    const name = line.word(i).slice(0, eq).toLowerCase();
+    if (eq < line.size(i) - 1) {
+      out.push({ name, value: this.valueIn(line, i, eq + 1), offset: line.at(i) });
       return i + 1;
     }
     if (i + 1 < n && line.kind(i + 1) !== Kind.Open && line.kind(i + 1) !== Kind.Close) {
       out.push({ name, value: this.value(line, i + 1), offset: line.at(i) });
       return i + 2;
     }
-    this.error('missing-value', line.at(i), `no value after "${w}"`);
+    this.error('missing-value', line.at(i), `no value after "${line.word(i)}"`);
     return i + 1;
   }
 
@@ -910,17 +894,16 @@ class FileBuilder {
     const out: Param[] = [];
     let i = 1;
     const n = line.length;
-    const isKeyAt = (j: number) =>
-      line.isWord(j) && (line.words[j].indexOf('=') > 0 || (j + 1 < n && line.isWord(j + 1) && line.words[j + 1].charCodeAt(0) === 61));
+    const isKeyAt = (j: number) => line.isWord(j) && (line.eqIndex(j) > 0 || (j + 1 < n && line.isWord(j + 1) && line.charCode(j + 1) === 61));
     while (i < n) {
       if (!isKeyAt(i)) {
-        if (line.isWord(i)) this.error('missing-value', line.at(i), `.param "${line.words[i]}" has no "=" and value`, 'write .param name=value');
+        if (line.isWord(i)) this.error('missing-value', line.at(i), `.param "${line.word(i)}" has no "=" and value`, 'write .param name=value');
         else this.itemProblem(line, i);
         i++;
         continue;
       }
-      const w = line.words[i];
-      const eq = w.indexOf('=');
+      const w = line.word(i);
+      const eq = line.eqIndex(i);
       const name = (eq > 0 ? w.slice(0, eq) : w).toLowerCase();
       const keyOffset = line.at(i);
       // The value's pieces: rest of this word, then items until the next `name=`.
@@ -933,7 +916,7 @@ class FileBuilder {
       }
       i++;
       if (eq < 0) {
-        const next = line.words[i];
+        const next = line.word(i);
         if (next.length > 1) {
           pieces.push(next.slice(1));
           valueOffset = line.at(i) + 1;
@@ -945,7 +928,8 @@ class FileBuilder {
           valueOffset = line.at(i);
           onlyItem = i;
         } else onlyItem = -2;
-        pieces.push(line.kind(i) === Kind.Brace ? `(${line.words[i]})` : line.kind(i) === Kind.Open ? '(' : line.kind(i) === Kind.Close ? ')' : line.words[i]);
+        const k = line.kind(i);
+        pieces.push(k === Kind.Brace ? `(${line.word(i)})` : k === Kind.Open ? '(' : k === Kind.Close ? ')' : line.word(i));
         i++;
       }
       if (pieces.length === 0) {
@@ -954,7 +938,7 @@ class FileBuilder {
       }
       let value: Value | undefined;
       if (onlyItem >= 0 && pieces.length === 1) value = this.value(line, onlyItem);
-      else if (pieces.length === 1 && line.isWord(i - 1)) value = this.wordValue(pieces[0], valueOffset);
+      else if (pieces.length === 1) value = this.wordValue(pieces[0], valueOffset);
       else value = this.expression(pieces.join(' '), valueOffset, false);
       out.push({ name, value, offset: keyOffset });
     }
@@ -996,58 +980,22 @@ class FileBuilder {
   }
 }
 
-/** One logical line's items. Offsets are relative to `base`. */
-class Line {
-  constructor(
-    readonly words: string[],
-    private readonly offs: number[],
-    private readonly kinds: Kind[] | null,
-    private readonly base: number,
-  ) {}
+/** One string per distinct spelling of a model or cell name: a million lines name `nch` a million times. */
+class Interner {
+  private readonly names: string[] = [];
+  private readonly index = new RangeIndex((e) => this.names[e], false, 256);
 
-  get length(): number {
-    return this.words.length;
-  }
-
-  kind(i: number): Kind {
-    return this.kinds ? this.kinds[i] : Kind.Word;
-  }
-
-  isWord(i: number): boolean {
-    return i < this.words.length && (this.kinds === null || this.kinds[i] === Kind.Word);
-  }
-
-  allWords(from: number, to: number): boolean {
-    if (to > this.words.length) return false;
-    if (this.kinds === null) return true;
-    for (let i = from; i < to; i++) if (this.kinds[i] !== Kind.Word) return false;
-    return true;
-  }
-
-  at(i: number): number {
-    return this.base + this.offs[Math.min(i, this.offs.length - 1)];
-  }
-
-  end(): number {
-    const last = this.words.length - 1;
-    return this.base + this.offs[last] + this.words[last].length;
-  }
-
-  describe(i: number): string {
-    switch (this.kind(i)) {
-      case Kind.Brace:
-        return `expression {${this.words[i].slice(0, 20)}}`;
-      case Kind.Quoted:
-        return `quoted text '${this.words[i].slice(0, 20)}'`;
-      case Kind.DollarModel:
-        return `$[${this.words[i]}]`;
-      case Kind.Open:
-        return '"("';
-      case Kind.Close:
-        return '")"';
-      default:
-        return `"${this.words[i].slice(0, 20)}"`;
+  intern(text: string, start: number, end: number): string {
+    const h = hashRange(text, start, end, false);
+    const e = this.index.find(text, start, end, h);
+    if (e >= 0) return this.names[e];
+    const name = text.substring(start, end);
+    // Bounded: frequent names arrive early; a huge table of one-off names only costs memory.
+    if (this.names.length < 50_000) {
+      this.names.push(name);
+      this.index.add(h);
     }
+    return name;
   }
 }
 
@@ -1085,8 +1033,8 @@ function parseText(path: string, text: string, numbers: NumberCache, from: numbe
     const body = from > 0 ? text.slice(from) : text;
     for (const { start, end } of statementChunks(body, chunkSize)) {
       const piece = start === 0 && end === body.length ? body : body.slice(start, end);
-      builder.base = from + start;
       const lexed = tokenize(piece);
+      builder.beginPiece(piece, from + start);
       for (const e of lexed.errors) builder.report('error', 'syntax', builder.base + e.offset, e.message);
       const tokens = lexed.tokens;
       const last = tokens[tokens.length - 1];

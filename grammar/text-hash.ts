@@ -1,0 +1,103 @@
+// Hashing of text ranges, so that names and numbers that recur millions of times
+// are recognised in place, without cutting a new string out of the source for
+// every mention. ASCII letters may be folded to lower case (netlist names are
+// case-insensitive); other characters compare exactly.
+
+const FNV_OFFSET = 0x811c9dc5;
+const FNV_PRIME = 0x01000193;
+
+export function hashRange(text: string, start: number, end: number, fold: boolean): number {
+  let h = FNV_OFFSET;
+  for (let i = start; i < end; i++) {
+    let c = text.charCodeAt(i);
+    if (fold && c >= 65 && c <= 90) c |= 0x20;
+    h = Math.imul(h ^ c, FNV_PRIME);
+  }
+  return h >>> 0;
+}
+
+export function rangeEquals(text: string, start: number, end: number, other: string, fold: boolean): boolean {
+  const n = end - start;
+  if (other.length !== n) return false;
+  for (let i = 0; i < n; i++) {
+    let a = text.charCodeAt(start + i);
+    let b = other.charCodeAt(i);
+    if (a !== b) {
+      if (!fold) return false;
+      if (a >= 65 && a <= 90) a |= 0x20;
+      if (b >= 65 && b <= 90) b |= 0x20;
+      if (a !== b) return false;
+    }
+  }
+  return true;
+}
+
+/** Lower-case ASCII letters only, matching the folding above. */
+export function foldAscii(text: string): string {
+  for (let i = 0; i < text.length; i++) {
+    const c = text.charCodeAt(i);
+    if (c >= 65 && c <= 90) return text.replace(/[A-Z]+/g, (m) => m.toLowerCase());
+  }
+  return text;
+}
+
+/**
+ * Open-addressing map from text ranges to entry numbers 0, 1, 2 …; the caller keeps
+ * the entries' strings and data in its own arrays, indexed by entry number. Each
+ * slot holds an entry and its hash side by side, so a probe touches one cache line
+ * and reads the key string only on a hash match.
+ */
+export class RangeIndex {
+  /** Pairs: entry + 1 (0 = empty), hash. */
+  private slots: Int32Array;
+  private hashes: number[] = [];
+  private mask: number;
+
+  constructor(
+    private readonly keyOf: (entry: number) => string,
+    readonly fold: boolean,
+    initialSlots = 1024,
+  ) {
+    this.slots = new Int32Array(initialSlots * 2);
+    this.mask = initialSlots - 1;
+  }
+
+  get size(): number {
+    return this.hashes.length;
+  }
+
+  /** Entry whose key equals the range, or -1. */
+  find(text: string, start: number, end: number, hash = hashRange(text, start, end, this.fold)): number {
+    const slots = this.slots;
+    const h = hash | 0;
+    for (let i = hash & this.mask; ; i = (i + 1) & this.mask) {
+      const v = slots[2 * i];
+      if (v === 0) return -1;
+      if (slots[2 * i + 1] === h && rangeEquals(text, start, end, this.keyOf(v - 1), this.fold)) return v - 1;
+    }
+  }
+
+  /** Record the entry numbered `size` (the caller has already stored its key). */
+  add(hash: number): number {
+    const entry = this.hashes.length;
+    this.hashes.push(hash);
+    if (this.hashes.length * 2 > this.mask + 1) this.grow();
+    else this.place(entry, hash);
+    return entry;
+  }
+
+  private place(entry: number, hash: number): void {
+    const slots = this.slots;
+    let i = hash & this.mask;
+    while (slots[2 * i] !== 0) i = (i + 1) & this.mask;
+    slots[2 * i] = entry + 1;
+    slots[2 * i + 1] = hash | 0;
+  }
+
+  private grow(): void {
+    const n = (this.mask + 1) * 2;
+    this.slots = new Int32Array(n * 2);
+    this.mask = n - 1;
+    for (let e = 0; e < this.hashes.length; e++) this.place(e, this.hashes[e]);
+  }
+}
