@@ -1,17 +1,21 @@
 // Runs a deck's enabled rules over a design, hierarchically.
 //
 // Cells are visited parents first. Each cell is analysed once per distinct port
-// context (which of its ports its parents tie to a rail), never once per instance,
-// so a design of billions of flattened devices costs what its distinct cells cost.
+// context (which of its ports its parents tie to a rail, and which clock phase or
+// domino timing its parents feed each port), never once per instance, so a design of
+// billions of flattened devices costs what its distinct cells cost.
 
 import type { Cell, Design, RailKind } from '../grammar/design';
 import { instanceCounts, topologicalOrder } from '../grammar/design';
 import type { Deck } from '../shared/deck';
-import { globMatcher } from '../shared/deck';
 import type { Finding, CheckSummary } from '../shared/findings';
 import { fingerprint } from './fingerprint';
 import { ruleRegistry } from './registry';
-import type { CellContext, RawFinding, RuleModule } from './types';
+import type { CellContext, PortSignal, RawFinding, RuleModule } from './types';
+import { cellIndex, localRails } from './recognition/context';
+import { primeClockHint, timingOf, timingSignature } from './recognition/timing';
+
+export { localRails };
 
 export interface CheckProgress {
   /** Cells done so far and in all. */
@@ -34,22 +38,9 @@ export interface CheckResult {
 
 interface PortContext {
   rails: (RailKind | undefined)[];
+  /** Timing of each port, as traced in the parent. */
+  signals: (PortSignal | undefined)[];
   count: number;
-}
-
-/** Rails each net of a cell carries from local evidence: name patterns, `.global` names held by a source, sources inside the cell. */
-export function localRails(design: Design, cell: Cell, deck: Deck): (RailKind | undefined)[] {
-  const isPower = globMatcher(deck.supplies.power);
-  const isGround = globMatcher(deck.supplies.ground);
-  const rails: (RailKind | undefined)[] = new Array(cell.nets.length);
-  for (let i = 0; i < cell.nets.length; i++) {
-    const name = cell.nets[i];
-    const sourced = design.sourcedRails.get(name.toLowerCase());
-    if (sourced) rails[i] = sourced.rail;
-    else if (isGround(name)) rails[i] = 'ground';
-    else if (isPower(name)) rails[i] = 'power';
-  }
-  return rails;
 }
 
 export function checkDesign(design: Design, deck: Deck, options: CheckOptions = {}): CheckResult {
@@ -65,7 +56,7 @@ export function checkDesign(design: Design, deck: Deck, options: CheckOptions = 
 
   // Port contexts flow from parents to children; every cell's parents come before it in `order`.
   const contexts = new Map<string, Map<string, PortContext>>();
-  for (const root of design.roots) addContext(contexts, root, [], 1);
+  for (const root of design.roots) addContext(contexts, root, [], [], 1);
 
   const findings: Finding[] = [];
   const seen = new Map<string, Finding>();
@@ -77,17 +68,15 @@ export function checkDesign(design: Design, deck: Deck, options: CheckOptions = 
     const cell = design.cells.get(key);
     if (!cell) continue;
     const base = localRails(design, cell, deck);
-    const cellContexts = contexts.get(key) ?? new Map([['', { rails: [], count: counts.get(key) ?? 1 }]]);
+    const cellContexts = contexts.get(key) ?? new Map([['', { rails: [], signals: [], count: counts.get(key) ?? 1 }]]);
+    const isRoot = design.roots.includes(key);
     for (const context of cellContexts.values()) {
       const rails = base.slice();
       cell.ports.forEach((net, i) => {
         if (rails[net] === undefined && context.rails[i] !== undefined) rails[net] = context.rails[i];
       });
-      // Children inherit what this context makes of the nets they are tied to.
-      for (const inst of cell.instances) {
-        addContext(contexts, inst.cell, inst.pins.map((p) => rails[p]), context.count);
-      }
-      if (wanted && !wanted.has(key)) continue;
+      const skip = wanted !== null && !wanted.has(key);
+      if (skip && cell.instances.length === 0) continue;
       const memo = new Map<string, unknown>();
       const ctx: CellContext = {
         design,
@@ -95,11 +84,30 @@ export function checkDesign(design: Design, deck: Deck, options: CheckOptions = 
         deck,
         instances: context.count,
         rails,
+        signals: context.signals.length ? context.signals : undefined,
+        root: isRoot,
         memo<T>(k: string, compute: () => T): T {
           if (!memo.has(k)) memo.set(k, compute());
           return memo.get(k) as T;
         },
       };
+      // Clock tracing comes first: its hint decides how footless dynamic stages are classified, for every rule.
+      primeClockHint(ctx);
+      const timing = timingOf(ctx);
+      // Children inherit what this context makes of the nets they are tied to: rails and timings.
+      if (cell.instances.length) {
+        const alias = cellIndex(ctx).alias;
+        for (const inst of cell.instances) {
+          addContext(
+            contexts,
+            inst.cell,
+            inst.pins.map((p) => rails[p]),
+            inst.pins.map((p) => timing.timing[alias[p]]),
+            context.count,
+          );
+        }
+      }
+      if (skip) continue;
       for (const { rule, severity, params } of settings) {
         rule.check(ctx, params, (raw) => emit(rule, severity, cell, context.count, raw));
       }
@@ -164,12 +172,15 @@ function addContext(
   contexts: Map<string, Map<string, PortContext>>,
   cellKey: string,
   rails: (RailKind | undefined)[],
+  signals: (PortSignal | undefined)[],
   count: number,
 ) {
   let byKey = contexts.get(cellKey);
   if (!byKey) contexts.set(cellKey, (byKey = new Map()));
-  const sig = rails.map((r) => (r === 'power' ? 'P' : r === 'ground' ? 'G' : '-')).join('');
+  let sig = rails.map((r) => (r === 'power' ? 'P' : r === 'ground' ? 'G' : '-')).join('');
+  const timed = signals.some((t) => t !== undefined);
+  if (timed) sig += '|' + signals.map(timingSignature).join(',');
   const existing = byKey.get(sig);
   if (existing) existing.count += count;
-  else byKey.set(sig, { rails, count });
+  else byKey.set(sig, { rails, signals: timed ? signals : [], count });
 }

@@ -8,6 +8,10 @@ import type { z } from 'zod';
 import type { Deck, Severity } from '../shared/deck';
 import type { FindingPlot, Quantity } from '../shared/findings';
 import type { Cell, Design, RailKind, SourceLoc } from '../grammar/design';
+import type { Timing } from './recognition/timing';
+
+/** What a parent tells a child about one of its ports beyond its rail: the clock phase or domino timing the parent's net has. */
+export type PortSignal = Timing;
 
 export type RuleArea = 'dynamic' | 'stage' | 'chain' | 'net' | 'device';
 
@@ -44,6 +48,10 @@ export interface CellContext {
   instances: number;
   /** Rail of each net of the cell, local evidence and port context combined. */
   rails: (RailKind | undefined)[];
+  /** Timing of each port (aligned with `cell.ports`) as the parents of this context feed it; absent for roots. */
+  signals?: readonly (PortSignal | undefined)[];
+  /** The cell's ports are local nets here (a root of the design, or a synthetic cell built by recognition). Default: the cell is a root. */
+  root?: boolean;
   /** Shared, memoised analyses (stages, clocks, dynamic nodes, …) keyed by name. */
   memo<T>(key: string, compute: () => T): T;
 }

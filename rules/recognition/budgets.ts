@@ -1,0 +1,217 @@
+// Electrical budgets of a dynamic node, at every corner of the deck: its capacitance,
+// the threshold of the stage that reads it, worst-case charge sharing, each keeper's
+// strength against the weakest evaluation path, and the leakage that empties it.
+//
+// The formulas are those of rules/electrical/charge.ts. They are evaluated on the
+// node's neighbourhood — its stage, every device with a terminal on the node or on a
+// stack node of its stage, and the capacitors there — copied into a small cell, so
+// that a flat netlist of a million devices costs what its distinct neighbourhoods
+// cost: results are memoised by the neighbourhood's structural signature.
+
+import type { Cell, RailKind } from '../../grammar/design';
+import type { Corner } from '../../shared/deck';
+import {
+  keeperRatio,
+  networkLeakage,
+  nodeCapacitance,
+  worstChargeSharing,
+  type ChargeSharingResult,
+  type ElementRef,
+  type KeeperRatio,
+} from '../electrical/charge';
+import type { Network } from '../electrical/network';
+import { ModelResolver } from '../electrical/parameters';
+import { stageAnalysesOf, type StageAnalysis } from '../stages';
+import type { CellContext } from '../types';
+import { cellIndex, designMemo } from './context';
+import type { DynamicNode } from './dynamic';
+
+export interface Threshold {
+  /** VIH of the most sensitive receiver for a precharged-high node, VIL for a pre-discharged one; VDD/2 when no receiver has one. */
+  value: number;
+  source: 'receiver' | 'assumed';
+  /** Receiving stage id, when there is one. */
+  stage: number | null;
+}
+
+export interface CornerBudget {
+  corner: string;
+  vdd: number;
+  /** Node capacitance (F): junctions, gates and explicit capacitors on the node. */
+  capacitance: number;
+  threshold: Threshold;
+  chargeSharing: ChargeSharingResult;
+  /** Drop (V) once stack nodes that a secondary precharge keeps charged are counted with the node. */
+  chargeSharingDrop: number;
+  /** One per keeper of the node, in order. */
+  keepers: KeeperRatio[];
+  /** Worst-case leakage (A) of the off evaluation network. */
+  leakage: number;
+}
+
+/** The node's budgets at every deck corner. */
+export function dynamicBudgets(d: DynamicNode): CornerBudget[] {
+  return d.ctx.memo(`recognition.budgets.${d.node}`, () => {
+    const hood = neighbourhood(d);
+    const electrical = designMemo(d.ctx.design, d.ctx.deck, `dynamic-budget|${hood.signature}`, () => solve(d, hood));
+    const thresholds = receiverThresholds(d);
+    return electrical.map((e, i) => ({ ...e, threshold: thresholds[i] }));
+  });
+}
+
+interface Neighbourhood {
+  cell: Cell;
+  elements: ElementRef[];
+  signature: string;
+  /** Stack nodes a secondary precharge device holds at the node's precharge level. */
+  precharged: Set<number>;
+}
+
+function neighbourhood(d: DynamicNode): Neighbourhood {
+  const { ctx, stage } = d;
+  const index = cellIndex(ctx);
+  const cell = ctx.cell;
+  const mosMap = new Map<number, number>();
+  const otherMap = new Map<number, number>();
+  const mosfets: Cell['mosfets'] = [];
+  const others: Cell['others'] = [];
+  const addMos = (i: number) => {
+    if (!mosMap.has(i)) {
+      mosMap.set(i, mosfets.length);
+      mosfets.push(cell.mosfets[i]);
+    }
+  };
+  const addOther = (i: number) => {
+    if (!otherMap.has(i)) {
+      otherMap.set(i, others.length);
+      others.push(cell.others[i]);
+    }
+  };
+  for (const el of stage.elements) (el.kind === 'mos' ? addMos : addOther)(el.index);
+  for (const x of [d.node, ...stage.internal]) {
+    for (const i of index.channel.of(x)) addMos(i);
+    for (const i of index.gates.of(x)) addMos(i);
+    for (const i of index.others.of(x)) if (cell.others[i].kind === 'cap') addOther(i);
+  }
+  const elements: ElementRef[] = stage.elements.map((el) => ({ kind: el.kind, index: (el.kind === 'mos' ? mosMap : otherMap).get(el.index)! }));
+  const sub: Cell = { ...cell, mosfets, others };
+
+  // Structural signature: devices with the roles of their nets, capacitors, the stage's networks and its recognised parts.
+  const alias = index.alias;
+  const roles = new Map<number, string>();
+  const role = (net: number): string => {
+    if (net < 0) return net === -1 ? 'P' : 'G';
+    const x = alias[net];
+    const r = index.railOf(x);
+    if (r) return r === 'power' ? 'P' : 'G';
+    if (x === d.node) return 'N';
+    let v = roles.get(x);
+    if (v === undefined) roles.set(x, (v = 'n' + roles.size));
+    return v;
+  };
+  const parts: string[] = [d.style];
+  for (const m of mosfets) parts.push(`${m.polarity}${m.w},${m.l},${m.m},${m.model.toLowerCase()}:${role(m.drain)}${role(m.gate)}${role(m.source)}${role(m.bulk)}`);
+  for (const o of others) {
+    if (o.kind === 'cap' || o.kind === 'res') parts.push(`${o.kind}${o.value}:${role(o.a)}${role(o.b)}`);
+  }
+  const shape = (n: Network): string =>
+    n.kind === 'leaf' ? `${elements[n.element].kind}${elements[n.element].index}` : `${n.kind[0]}(${n.children.map(shape).join(' ')})`;
+  parts.push(`E${shape(d.evaluation)}`);
+  for (const k of d.keepers) parts.push(`K${k.kind}${shape(k.network)}`);
+  parts.push(`F${d.footers.map((e) => elements[e].index).join(',')}`);
+  const precharged = new Set<number>();
+  for (const a of stage.auxiliary) {
+    if ((a.rail === 'power') === (d.style === 'n-evaluate')) precharged.add(alias[a.node]);
+  }
+  parts.push(`A${[...precharged].map(role).join(',')}`);
+  return { cell: sub, elements, signature: parts.join(';'), precharged };
+}
+
+/**
+ * Level of each footer's gate during evaluation (true: high): on, as the stage is meant to work. A footer on the wrong
+ * phase is dynamic.phase-mismatch's finding; charge sharing is judged for the stage as intended.
+ */
+function footerLevels(d: DynamicNode): boolean[] {
+  return d.footers.map(() => d.style === 'n-evaluate');
+}
+
+type ElectricalBudget = Omit<CornerBudget, 'threshold'>;
+
+function solve(d: DynamicNode, hood: Neighbourhood): ElectricalBudget[] {
+  const { ctx } = d;
+  const index = cellIndex(ctx);
+  const railOf = (net: number): RailKind | undefined => index.railOf(net);
+  const held = new Map<number, boolean>();
+  const levels = footerLevels(d);
+  d.footers.forEach((e, i) => {
+    const el = d.stage.elements[e];
+    held.set(index.alias[ctx.cell.mosfets[el.index].gate], levels[i]);
+  });
+  return ctx.deck.corners.map((corner) => {
+    const base = { cell: hood.cell, corner, elements: hood.elements, railOf, alias: index.alias };
+    const capacitance = nodeCapacitance(hood.cell, d.node, corner, index.alias).total;
+    const chargeSharing = worstChargeSharing({ ...base, node: d.node, network: d.evaluation, held });
+    let drop = chargeSharing.drop;
+    if (hood.precharged.size) {
+      let cPre = 0;
+      for (const x of chargeSharing.sharedNets) if (hood.precharged.has(x)) cPre += nodeCapacitance(hood.cell, x, corner, index.alias).total;
+      const cDischarged = Math.max(chargeSharing.cShared - cPre, 0);
+      const total = capacitance + cPre + cDischarged;
+      drop = total > 0 ? (corner.vdd * cDischarged) / total : 0;
+    }
+    const drive = { ...base, models: ctx.design.models, useNetlistModels: ctx.deck.useNetlistModels };
+    const keepers = d.keepers.map((k) => keeperRatio(drive, k.network, d.evaluation));
+    const leakage = networkLeakage(base, d.evaluation);
+    return { corner: corner.name, vdd: corner.vdd, capacitance, chargeSharing, chargeSharingDrop: drop, keepers, leakage };
+  });
+}
+
+/** Threshold of the most sensitive static receiver of the node, per corner. */
+export function receiverThresholds(d: DynamicNode): Threshold[] {
+  const high = d.style === 'n-evaluate';
+  const analyses = d.receivers.length ? stageAnalysesOf(d.ctx) : [];
+  const byStage = new Map<number, StageAnalysis>();
+  for (const a of analyses) byStage.set(a.stage.id, a);
+  return d.ctx.deck.corners.map((corner, ci) => {
+    let best: Threshold | null = null;
+    for (const r of d.receivers) {
+      const a = byStage.get(r.id);
+      const inp = a?.inputs.find((i) => i.input === d.node);
+      const c = inp?.corners[ci];
+      if (!c) continue;
+      for (const x of c.cases) {
+        const v = high ? x.result.vih : x.result.vil;
+        if (v === null) continue;
+        if (!best || (high ? v > best.value : v < best.value)) best = { value: v, source: 'receiver', stage: r.id };
+      }
+    }
+    return best ?? { value: corner.vdd / 2, source: 'assumed', stage: null };
+  });
+}
+
+/** Capacitance of any net of a context (junctions, gates, capacitors counted as grounded), from the context's index. */
+export function netCapacitance(ctx: CellContext, net: number, corner: Corner): number {
+  const index = cellIndex(ctx);
+  const cell = ctx.cell;
+  const x = index.alias[net];
+  let c = 0;
+  for (const i of index.channel.of(x)) {
+    const m = cell.mosfets[i];
+    c += (m.polarity === 'n' ? corner.nmos : corner.pmos).cjPerUm * m.w * m.m * 1e6;
+  }
+  for (const i of index.gates.of(x)) {
+    const m = cell.mosfets[i];
+    c += (m.polarity === 'n' ? corner.nmos : corner.pmos).cgPerUm * m.w * m.m * 1e6;
+  }
+  for (const i of index.others.of(x)) {
+    const o = cell.others[i];
+    if (o.kind === 'cap' && index.alias[o.a] !== index.alias[o.b]) c += o.value;
+  }
+  return c;
+}
+
+/** Zero-bias threshold magnitude of a device at a corner, from its `.model` card when the deck reads them. */
+export function thresholdOf(ctx: CellContext, polarity: 'n' | 'p', model: string, corner: Corner): number {
+  const resolver = designMemo(ctx.design, ctx.deck, `resolver|${corner.name}`, () => new ModelResolver(corner, ctx.design.models, ctx.deck.useNetlistModels));
+  return resolver.get(polarity, model).model.vt0;
+}

@@ -1,0 +1,278 @@
+// Cell contexts outside the engine's walk, and per-context indices.
+//
+// Recognition sometimes has to look at a cell the engine is not visiting right now:
+// a child, to learn what its ports do (an inverter between two ports, a pass path, a
+// port that only reaches gates), or a synthetic cell that gathers the devices on one
+// net across the hierarchy (a bit line). Those get contexts of their own here, built
+// like the engine's (rails from local evidence, then from the pins), memoised per
+// design and deck so each distinct (cell, rails) pair is set up once.
+
+import type { Cell, Design, RailKind } from '../../grammar/design';
+import type { Deck } from '../../shared/deck';
+import { globMatcher } from '../../shared/deck';
+import type { CellContext, PortSignal } from '../types';
+import { stagesOf } from '../stages';
+import type { CellStages, Stage } from '../stages';
+
+/**
+ * Rails each net of a cell carries from local evidence: name patterns, `.global` names held by a source, sources
+ * inside the cell, and wells: a port (or global) that is the body of p-channel devices and otherwise touches only
+ * p-channel channels, never a gate, is an n-well supply (a second supply such as a level shifter's low-voltage
+ * rail); the mirror image is a ground.
+ */
+export function localRails(design: Design, cell: Cell, deck: Deck): (RailKind | undefined)[] {
+  const isPower = globMatcher(deck.supplies.power);
+  const isGround = globMatcher(deck.supplies.ground);
+  const n = cell.nets.length;
+  const rails: (RailKind | undefined)[] = new Array(n);
+  let unnamedPorts = false;
+  for (let i = 0; i < n; i++) {
+    const name = cell.nets[i];
+    const sourced = design.sourcedRails.get(name.toLowerCase());
+    if (sourced) rails[i] = sourced.rail;
+    else if (isGround(name)) rails[i] = 'ground';
+    else if (isPower(name)) rails[i] = 'power';
+  }
+  for (const p of cell.ports) if (rails[p] === undefined) unnamedPorts = true;
+  if (!unnamedPorts && design.globals.size === 0) return rails;
+  // Per net: bit 0 body of p, 1 body of n, 2 p channel, 3 n channel, 4 gate.
+  const use = new Uint8Array(n);
+  for (const m of cell.mosfets) {
+    const p = m.polarity === 'p';
+    use[m.bulk] |= p ? 1 : 2;
+    use[m.drain] |= p ? 4 : 8;
+    use[m.source] |= p ? 4 : 8;
+    use[m.gate] |= 16;
+  }
+  const candidate = new Uint8Array(n);
+  for (const p of cell.ports) candidate[p] = 1;
+  for (let i = 0; i < n; i++) if (design.globals.has(cell.nets[i].toLowerCase())) candidate[i] = 1;
+  for (let i = 0; i < n; i++) {
+    if (rails[i] !== undefined || !candidate[i] || use[i] & 16) continue;
+    if (use[i] & 1 && !(use[i] & (2 | 8))) rails[i] = 'power';
+    else if (use[i] & 2 && !(use[i] & (1 | 4))) rails[i] = 'ground';
+  }
+  return rails;
+}
+
+/** Local rails completed by what the parent ties each port to. */
+export function railsWithPorts(design: Design, cell: Cell, deck: Deck, portRails: readonly (RailKind | undefined)[]): (RailKind | undefined)[] {
+  const rails = localRails(design, cell, deck);
+  cell.ports.forEach((net, i) => {
+    if (rails[net] === undefined && portRails[i] !== undefined) rails[net] = portRails[i];
+  });
+  return rails;
+}
+
+export function railSignature(rails: readonly (RailKind | undefined)[]): string {
+  let s = '';
+  for (const r of rails) s += r === 'power' ? 'P' : r === 'ground' ? 'G' : '-';
+  return s;
+}
+
+type MemoStore = Map<string, unknown>;
+const designMemos = new WeakMap<Design, WeakMap<Deck, MemoStore>>();
+
+/** A value memoised per design and deck. */
+export function designMemo<T>(design: Design, deck: Deck, key: string, compute: () => T): T {
+  let byDeck = designMemos.get(design);
+  if (!byDeck) designMemos.set(design, (byDeck = new WeakMap()));
+  let store = byDeck.get(deck);
+  if (!store) byDeck.set(deck, (store = new Map()));
+  if (!store.has(key)) store.set(key, compute());
+  return store.get(key) as T;
+}
+
+export interface ContextOptions {
+  instances?: number;
+  signals?: readonly (PortSignal | undefined)[];
+  /** Treat the cell's ports as local nets (a root, or a synthetic cell). */
+  root?: boolean;
+}
+
+/** A context of the engine's shape for a cell the engine is not visiting (a child, a synthetic cell). */
+export function makeContext(design: Design, deck: Deck, cell: Cell, rails: (RailKind | undefined)[], options: ContextOptions = {}): CellContext {
+  const memo = new Map<string, unknown>();
+  return {
+    design,
+    cell,
+    deck,
+    instances: options.instances ?? 1,
+    rails,
+    signals: options.signals,
+    root: options.root,
+    memo<T>(k: string, compute: () => T): T {
+      if (!memo.has(k)) memo.set(k, compute());
+      return memo.get(k) as T;
+    },
+  };
+}
+
+/** The context of a child cell under the rails its parent ties its ports to (no clock context). */
+export function childContext(design: Design, deck: Deck, cellKey: string, portRails: readonly (RailKind | undefined)[]): CellContext | null {
+  const cell = design.cells.get(cellKey);
+  if (!cell) return null;
+  const rails = railsWithPorts(design, cell, deck, portRails);
+  return designMemo(design, deck, `child|${cellKey}|${railSignature(cell.ports.map((p) => rails[p]))}`, () => makeContext(design, deck, cell, rails));
+}
+
+/** Rails of an instance's pins as its parent sees them. */
+export function pinRails(ctx: CellContext, pins: readonly number[]): (RailKind | undefined)[] {
+  return pins.map((p) => ctx.rails[p]);
+}
+
+// ---------------------------------------------------------------------------
+// Per-context indices over alias roots (nets merged by zero-ohm ties).
+
+/** Lists per net, stored compactly: values of net n are `list[start[n]] … list[start[n + 1] - 1]`. */
+export class NetLists {
+  constructor(
+    readonly start: Int32Array,
+    readonly list: Int32Array,
+  ) {}
+  count(net: number): number {
+    return this.start[net + 1] - this.start[net];
+  }
+  of(net: number): Int32Array {
+    return this.list.subarray(this.start[net], this.start[net + 1]);
+  }
+}
+
+/** Builds NetLists from (net, value) pairs given as two parallel arrays. */
+function buildLists(netCount: number, nets: ArrayLike<number>, values: ArrayLike<number>, length: number): NetLists {
+  const start = new Int32Array(netCount + 1);
+  for (let i = 0; i < length; i++) start[nets[i] + 1]++;
+  for (let n = 0; n < netCount; n++) start[n + 1] += start[n];
+  const fill = start.slice(0, netCount);
+  const list = new Int32Array(length);
+  for (let i = 0; i < length; i++) list[fill[nets[i]]++] = values[i];
+  return new NetLists(start, list);
+}
+
+class PairBuffer {
+  nets: Int32Array;
+  values: Int32Array;
+  length = 0;
+  constructor(capacity: number) {
+    this.nets = new Int32Array(Math.max(capacity, 4));
+    this.values = new Int32Array(Math.max(capacity, 4));
+  }
+  push(net: number, value: number) {
+    if (this.length === this.nets.length) {
+      const n = new Int32Array(this.nets.length * 2);
+      n.set(this.nets);
+      this.nets = n;
+      const v = new Int32Array(this.values.length * 2);
+      v.set(this.values);
+      this.values = v;
+    }
+    this.nets[this.length] = net;
+    this.values[this.length++] = value;
+  }
+  lists(netCount: number): NetLists {
+    return buildLists(netCount, this.nets, this.values, this.length);
+  }
+}
+
+export interface CellIndex {
+  stages: CellStages;
+  alias: Int32Array;
+  railOf(net: number): RailKind | undefined;
+  /** MOS devices with a channel terminal (drain or source) on the net; a device appears twice when both are. */
+  channel: NetLists;
+  /** MOS devices gated by the net. */
+  gates: NetLists;
+  /** Other devices (`cell.others` index) with a terminal on the net. */
+  others: NetLists;
+  /** Instance pins on the net, encoded as instance × 4096 + pin … see `pinOf`. Stored as pairs in two lists. */
+  pinInstances: NetLists;
+  pinPorts: NetLists;
+  /** Stages (driving or pass) with the net among their gate inputs. */
+  inputOf: NetLists;
+  /** Pass stages with the net among their terminals. */
+  passAt: NetLists;
+  /** Stage that owns each MOS device (−1 when none: both ends on rails). */
+  stageOfMos: Int32Array;
+  /** Whether the net is a port of the cell. */
+  isPort: Uint8Array;
+}
+
+/** Nets, devices, pins and stages of a context, indexed by net. */
+export function cellIndex(ctx: CellContext): CellIndex {
+  return ctx.memo('recognition.index', () => {
+    const stages = stagesOf(ctx);
+    const cell = ctx.cell;
+    const alias = stages.alias;
+    const n = cell.nets.length;
+    const railRoot: (RailKind | undefined)[] = new Array(n);
+    for (let i = 0; i < n; i++) if (ctx.rails[i]) railRoot[alias[i]] = ctx.rails[i];
+    const channel = new PairBuffer(cell.mosfets.length * 2);
+    const gates = new PairBuffer(cell.mosfets.length);
+    for (let i = 0; i < cell.mosfets.length; i++) {
+      const m = cell.mosfets[i];
+      channel.push(alias[m.drain], i);
+      channel.push(alias[m.source], i);
+      gates.push(alias[m.gate], i);
+    }
+    const others = new PairBuffer(cell.others.length * 2);
+    for (let i = 0; i < cell.others.length; i++) {
+      const o = cell.others[i];
+      const [a, b] = terminalsOf(o);
+      others.push(alias[a], i);
+      if (alias[b] !== alias[a]) others.push(alias[b], i);
+    }
+    const pinInstances = new PairBuffer(cell.instances.length * 4);
+    const pinPorts = new PairBuffer(cell.instances.length * 4);
+    cell.instances.forEach((inst, k) => {
+      inst.pins.forEach((p, j) => {
+        pinInstances.push(alias[p], k);
+        pinPorts.push(alias[p], j);
+      });
+    });
+    const inputOf = new PairBuffer(stages.stages.length * 2);
+    const passAt = new PairBuffer(stages.stages.length);
+    const stageOfMos = new Int32Array(cell.mosfets.length).fill(-1);
+    for (const s of stages.stages) {
+      for (const x of s.inputs) inputOf.push(x, s.id);
+      if (s.kind === 'pass') for (const t of s.terminals) passAt.push(t, s.id);
+      for (const e of s.elements) if (e.kind === 'mos') stageOfMos[e.index] = s.id;
+    }
+    const isPort = new Uint8Array(n);
+    for (const p of cell.ports) isPort[alias[p]] = 1;
+    return {
+      stages,
+      alias,
+      railOf: (net: number) => (net < 0 ? (net === -1 ? 'power' : 'ground') : railRoot[alias[net]]),
+      channel: channel.lists(n),
+      gates: gates.lists(n),
+      others: others.lists(n),
+      pinInstances: pinInstances.lists(n),
+      pinPorts: pinPorts.lists(n),
+      inputOf: inputOf.lists(n),
+      passAt: passAt.lists(n),
+      stageOfMos,
+      isPort,
+    } satisfies CellIndex;
+  });
+}
+
+/** The two terminals of a resistor, capacitor, source or diode. */
+export function terminalsOf(o: Cell['others'][number]): [number, number] {
+  switch (o.kind) {
+    case 'diode':
+      return [o.anode, o.cathode];
+    case 'vsrc':
+    case 'isrc':
+      return [o.pos, o.neg];
+    default:
+      return [o.a, o.b];
+  }
+}
+
+/** Static stages restore levels: their outputs are driven to a rail through a complementary or ratioed network. */
+export const RESTORING_KINDS: ReadonlySet<Stage['kind']> = new Set(['inverter', 'complementary', 'ratioed', 'clocked']);
+
+/** Whether the cell's ports are local nets here: a root of the design, or a synthetic cell. */
+export function portsAreLocal(ctx: CellContext): boolean {
+  return ctx.root ?? (ctx.cell.isTopLevel || ctx.design.roots.includes(ctx.cell.key));
+}
