@@ -14,7 +14,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { checkReportSchema } from '../../shared/findings';
 import { deckVersionSchema } from '../../shared/api/decks';
 import { createTeam, signedInAs, startTestEnv, type TestEnv } from './helpers';
-import { INVERTER_NETLIST, makeDeck } from './decks-fixtures';
+import { deckWithOnly, INVERTER_NETLIST, makeDeck } from './decks-fixtures';
 
 const run = promisify(execFile);
 const root = new URL('../..', import.meta.url).pathname;
@@ -45,7 +45,8 @@ describe('keepwell check --deck with an exported version', () => {
   it('checks with the exported settings', async () => {
     const team = await createTeam();
     const owner = await signedInAs(env, team, ['methodology']);
-    const { deck, published } = await makeDeck(team.id, { name: 'cli-export-deck' });
+    // Only the size rule runs, whatever else the registry holds.
+    const { deck, published } = await makeDeck(team.id, { name: 'cli-export-deck', content: { ...deckWithOnly(['device.implausible-size']), name: 'cli-export-deck' } });
     const draft = deckVersionSchema.parse((await owner.agent.post(`/api/decks/${deck.id}/drafts`).send({}).expect(201)).body);
     const edited = deckVersionSchema.parse(
       (

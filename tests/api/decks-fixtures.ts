@@ -46,6 +46,14 @@ export async function makeDeck(teamId: string, options: { draft?: boolean; conte
   return { deck, published, draft };
 }
 
+/** The built-in deck with every rule but `ids` switched off, so a test sees only the rules it is about. */
+export function deckWithOnly(ids: string[], change: (deck: Deck) => void = () => {}): Deck {
+  const deck = defaultDeck();
+  for (const [id, setting] of Object.entries(deck.rules)) setting.enabled = ids.includes(id);
+  change(deck);
+  return deck;
+}
+
 /** Store an upload of `files` (path → text) for a block, as the upload route would. */
 export async function makeNetlist(teamId: string, blockId: string, files: Record<string, string>): Promise<Netlist> {
   const entries = Object.entries(files);

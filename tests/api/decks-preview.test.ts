@@ -12,11 +12,10 @@
 
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { deckVersionSchema, previewSchema, type DeckVersion } from '../../shared/api/decks';
-import { defaultDeck } from '../../rules/default-deck';
 import { Block } from '../../server/db/models';
 import { previewVersion } from '../../server/services/decks-preview';
 import { createTeam, signedInAs, startTestEnv, type TestEnv } from './helpers';
-import { INVERTER_NETLIST, makeDeck, makeNetlist } from './decks-fixtures';
+import { deckWithOnly, INVERTER_NETLIST, makeDeck, makeNetlist } from './decks-fixtures';
 import type request from 'supertest';
 
 let env: TestEnv;
@@ -27,11 +26,11 @@ afterAll(async () => {
   await env?.close();
 });
 
-function strictSizes() {
-  const deck = defaultDeck();
-  deck.rules['device.implausible-size'].params.maxWidth = 1.5e-6;
-  return deck;
-}
+// Only the two rules under test run, whatever else the registry holds.
+const strictSizes = () =>
+  deckWithOnly(['device.implausible-size', 'stage.noise-margin'], (deck) => {
+    deck.rules['device.implausible-size'].params.maxWidth = 1.5e-6;
+  });
 
 async function scenario() {
   const team = await createTeam();
