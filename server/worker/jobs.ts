@@ -131,6 +131,11 @@ export async function processRunJob(env: JobEnv, job: Job<RunJobData>): Promise<
     return 'skipped';
   }
   return execute(env, job, 'run', runId, async () => {
+    // This job already split the run and its flow is queued (the worker died before the job could complete): leave the flow to finish.
+    if (run.parts) {
+      const flow = await env.flow.getFlow({ id: jobIds.merge(runId), queueName: RUN_QUEUE, depth: 0 }).catch(() => null);
+      if (flow?.job) return 'split';
+    }
     const started = Date.now();
     const progress = new ProgressWriter(env, runId, run.attempt);
     const inputs = await loadRunInputs(env.ctx, run);
