@@ -1,6 +1,7 @@
 // An invented two-file netlist set of the demo scenario (Marrowgate's Lantern tag compare):
-// a dynamic match line with precharge, footer, evaluate pairs, keeper and output inverter, and
-// a chain of buffers with enhancement (gate on VDD) loads in the scan path. The browser journey
+// a dynamic match line with precharge, footer, evaluate pairs, keeper and output inverter, a
+// chain of buffers with enhancement (gate on VDD) loads, and four n-channel pass devices in
+// series before an inverter in the scan path. The browser journey
 // uploads it when the demo has no finished run with a dynamic-node finding.
 
 export const TAG_BIT = `* Lantern tag compare: one match-line bit slice (invented demo netlist)
@@ -26,7 +27,8 @@ Xbit clk a0 b0 a1 b1 hit vdd vss lt_match_bit
 Xs1 scan_in s1 vdd vss lt_load_buf
 Xs2 s1 s2 vdd vss lt_load_buf
 Xs3 s2 s3 vdd vss lt_load_buf
-Xs4 s3 scan_out vdd vss lt_load_buf
+Xs4 s3 s4 vdd vss lt_load_buf
+Xsp s4 clk a0 b0 a1 scan_out vdd vss lt_pass4
 .ends lt_tag_slice
 `;
 
@@ -36,6 +38,16 @@ export const CELLS = `* Lantern shared cells (invented demo netlist)
 Mload vdd vdd out vss nch w=0.5u l=0.25u
 Mdrv out in vss vss nch w=0.5u l=0.25u
 .ends lt_load_buf
+
+* four n-channel pass devices in series, then the restoring inverter
+.subckt lt_pass4 d g0 g1 g2 g3 q vdd vss
+Mp0 d g0 n1 vss nch w=0.5u l=0.25u
+Mp1 n1 g1 n2 vss nch w=0.5u l=0.25u
+Mp2 n2 g2 n3 vss nch w=0.5u l=0.25u
+Mp3 n3 g3 n4 vss nch w=0.5u l=0.25u
+Mrp q n4 vdd vdd pch w=0.9u l=0.25u
+Mrn q n4 vss vss nch w=0.42u l=0.25u
+.ends lt_pass4
 `;
 
 export const NETLIST_SET = [

@@ -166,13 +166,14 @@ async function findDemoRun(page: Page, ruleIds: string[]): Promise<{ run: RunVie
   return null;
 }
 
-async function uploadDemoNetlist(page: Page, base: string): Promise<RunView> {
+/** Upload a netlist set as a new run of the demo tag-compare block and wait for it to finish. */
+async function uploadNetlist(page: Page, base: string, files: { path: string; text: string }[], note: string): Promise<RunView> {
   const { items: blocks } = await apiGet<{ items: { id: string; name: string }[] }>(page, '/api/blocks');
   const block = blocks.find((b) => b.name === 'lantern-tag-compare') ?? blocks.find((b) => DEMO_BLOCKS.some((d) => d.name === b.name)) ?? blocks[0];
   const form = new FormData();
   form.set('blockId', block.id);
-  form.set('note', 'Uploaded by the review journey (tests/e2e/review.ts).');
-  for (const file of NETLIST_SET) form.append('files', new Blob([file.text], { type: 'text/plain' }), file.path);
+  form.set('note', note);
+  for (const file of files) form.append('files', new Blob([file.text], { type: 'text/plain' }), file.path);
   const res = await page.request.post('/api/runs', { multipart: form, headers: { Origin: base } });
   if (!res.ok()) throw new Error(`POST /api/runs: ${res.status()} ${await res.text()}`);
   const { run } = (await res.json()) as { run: RunView };
@@ -241,7 +242,7 @@ async function journey(base: string) {
     let found = await findDemoRun(page, dynamicRules);
     if (!found) {
       say('no finished demo run has a dynamic-node finding: uploading the demo netlist set through the API');
-      const run = await uploadDemoNetlist(page, base);
+      const run = await uploadNetlist(page, base, NETLIST_SET, 'Uploaded by the review journey (tests/e2e/review.ts).');
       found = await findingIn(page, [run], dynamicRules);
       check(found !== null, 'the uploaded run finished with a dynamic-node finding');
       if (!found) return;
@@ -279,6 +280,10 @@ async function journey(base: string) {
     check(Boolean(box && frame && box.y >= frame.y && box.y + box.height <= frame.y + frame.height), 'the highlighted line is scrolled into the editor’s view');
     const marks = await page.locator('.kw-glyph').count();
     check(marks > 0, `the gutter marks the file’s findings (${marks} marks rendered)`);
+    const everything = await apiGet<{ items: StoredFinding[]; total: number }>(page, `/api/runs/${run.id}/findings?pageSize=500`);
+    const inFile = everything.items.filter((f) => f.file === finding.file).length;
+    const counter = (await page.getByText(/in this file$/).first().textContent()) ?? '';
+    check(everything.total <= 500 && counter.endsWith(`of ${inFile} in this file`), `the editor counts the file’s ${inFile} findings (“${counter}”)`);
     await page.getByRole('heading', { name: 'Netlist' }).scrollIntoViewIfNeeded();
     say(`screenshot ${path.relative(repoRoot, await screenshot(page, 'dynamic-finding', { folder: 'review' }))}`);
 
@@ -343,6 +348,31 @@ async function journey(base: string) {
     const overflow = await page.evaluate(() => document.documentElement.scrollWidth - document.documentElement.clientWidth);
     check(overflow <= 0, `at 1280 px the page does not scroll sideways (${overflow} px over)`);
     say(`screenshot ${path.relative(repoRoot, await screenshot(page, 'run-1280', { folder: 'review' }))}`);
+
+    // Comparison by fingerprint: the journey's netlist set, then the same set with every line
+    // moved down by a comment, must match finding for finding — nothing new, nothing fixed.
+    await page.setViewportSize({ width: 1440, height: 960 });
+    const first = await uploadNetlist(page, base, NETLIST_SET, 'Review journey: comparison base.');
+    const moved = NETLIST_SET.map((f) => ({ ...f, text: `* every line moved down by one for the comparison check\n${f.text}` }));
+    const second = await uploadNetlist(page, base, moved, 'Review journey: the same netlist with its lines moved.');
+    const compared = await apiGet<{ counts: { new: number; fixed: number; persisting: number } }>(page, `/api/runs/${second.id}/compare/${first.id}?kind=persisting`);
+    const firstTotal = (await apiGet<{ total: number }>(page, `/api/runs/${first.id}/findings?pageSize=1`)).total;
+    check(compared.counts.new === 0 && compared.counts.fixed === 0 && compared.counts.persisting === firstTotal, `moved lines still match: ${JSON.stringify(compared.counts)} of ${firstTotal} findings`);
+    await page.goto(`/runs/${second.id}?tab=compare&base=${first.id}&kind=persisting`);
+    await page.getByRole('tab', { name: new RegExp(`Persisting ${firstTotal}`) }).waitFor({ timeout: 20_000 });
+    say(`screenshot ${path.relative(repoRoot, await screenshot(page, 'compare', { folder: 'review' }))}`);
+    await page.goto(`/runs/${second.id}?tab=summary`);
+    await page.getByRole('table', { name: 'Findings by rule' }).waitFor();
+    say(`screenshot ${path.relative(repoRoot, await screenshot(page, 'summary', { folder: 'review' }))}`);
+    await page.goto(`/blocks/${second.block.id}`);
+    await page.getByRole('table', { name: /Runs of/ }).waitFor();
+    say(`screenshot ${path.relative(repoRoot, await screenshot(page, 'block-runs', { folder: 'review' }))}`);
+
+    // A shared link to a finding that the filtered table does not hold is opened by its id.
+    const otherSeverity = finding.severity === 'info' ? 'error' : 'info';
+    await page.goto(`/runs/${run.id}?tab=findings&severity=${otherSeverity}&finding=${finding.id}`);
+    await page.getByRole('complementary', { name: 'Selected finding' }).getByText(finding.message).waitFor({ timeout: 20_000 });
+    check((await page.locator(`tr[data-finding-id="${finding.id}"]`).count()) === 0, 'a shared link opens its finding even when the filtered table does not list it');
 
     clean(guarded, 'review journey');
     await guarded.context.close();

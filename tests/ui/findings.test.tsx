@@ -192,6 +192,7 @@ describe('netlist beside the finding', () => {
   it('shows the finding’s file with its line revealed and focused, its devices tinted and every finding of the file marked', async () => {
     await openRun(`/runs/${RUN_ID}?finding=102`);
     const editor = await screen.findByTestId('netlist-editor');
+    // Line 9 holds an error and an info: one mark, in the more severe tone.
     await waitFor(() => expect(editor).toHaveAttribute('data-marks', '6:warning,9:error,12:warning,15:info,17:info'));
     expect(editor).toHaveAttribute('data-file', 'lk_dom_and2.sp');
     // DOMINO_AND2 line 6 is `Mpre dyn clk vdd vdd …`, the device the finding names.
@@ -203,13 +204,13 @@ describe('netlist beside the finding', () => {
     const { router } = await openRun(`/runs/${RUN_ID}?finding=102`);
     const user = userEvent.setup();
     const editor = await screen.findByTestId('netlist-editor');
-    await waitFor(() => expect(screen.getByText('Finding 1 of 5 in this file')).toBeInTheDocument());
+    await waitFor(() => expect(screen.getByText('Finding 1 of 6 in this file')).toBeInTheDocument());
     await user.click(screen.getByRole('button', { name: '↓ Next' }));
     await waitFor(() => expect(new URLSearchParams(router.state.location.search).get('finding')).toBe('101'));
     // Charge sharing is anchored at Ma (DOMINO_AND2 line 9, focused) and also names Mb (line 10, tinted in its severity).
     expect(editor).toHaveAttribute('data-focus', '9');
     expect(editor).toHaveAttribute('data-tinted', '10:error');
-    expect(screen.getByText('Finding 2 of 5 in this file')).toBeInTheDocument();
+    expect(screen.getByText('Finding 2 of 6 in this file')).toBeInTheDocument();
     await user.click(screen.getByRole('button', { name: '↑ Previous' }));
     await waitFor(() => expect(new URLSearchParams(router.state.location.search).get('finding')).toBe('102'));
   });

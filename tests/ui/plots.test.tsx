@@ -4,7 +4,7 @@
 
 import { render, screen, within } from '@testing-library/react';
 import { describe, expect, it } from 'vitest';
-import type { MosModel } from '../../rules/electrical/mos';
+import { thresholdVoltage, type MosModel } from '../../rules/electrical/mos';
 import { analyseTransfer, TransferSolver, type StageCircuit } from '../../rules/electrical/transfer';
 import { chainPlot, repeatStage } from '../../rules/electrical/chain';
 import { budgetPlotSchema, chainPlotSchema, transferPlotSchema } from '../../shared/findings';
@@ -200,6 +200,46 @@ describe('chain staircase plot', () => {
     const last = steps.at(-1)!;
     expect(Math.abs(last.vin - vm)).toBeLessThan(0.02);
     expect(Math.abs(last.vout - vm)).toBeLessThan(0.02);
+  });
+});
+
+describe('chain plot of pass devices before a receiver', () => {
+  // An n-channel pass device passes a high only up to VDD − VTn, its threshold raised by the body
+  // effect at source voltage Vx: Vx = VDD − VT(Vx) (Rabaey et al., Digital Integrated Circuits,
+  // pass-transistor logic). A second device in series loses no further threshold, so two pass
+  // devices give the same level; the receiving inverter then restores it.
+  const body: MosModel = { ...nmos, gamma: 0.4 };
+  let passed = VDD - VT;
+  for (let i = 0; i < 60; i++) passed = VDD - thresholdVoltage(body, passed);
+  const circuit = inverter(1e-4, 1e-4);
+  const receiver = new TransferSolver(circuit);
+  const curve = analyseTransfer(circuit);
+  const out = receiver.vout(passed);
+  const plot = chainPlotSchema.parse({ kind: 'chain', vdd: VDD, vin: curve.vin, vout: curve.vout, levels: [VDD, passed, passed, out], restoredAfter: 3, tolerance: 0.05 * VDD });
+
+  it('slides the level along Vout = Vin through the pass devices and through the receiver’s curve at the end', () => {
+    // Worked by hand from the body-effect formula for VT0 0.43 V, γ 0.4 √V, 2φF 0.6 V: at Vx = 1.765 V,
+    // VT = 0.43 + 0.4·(√2.365 − √0.6) = 0.735 V and VDD − VT = 1.765 V.
+    expect(Math.abs(passed - 1.765)).toBeLessThan(0.005);
+    render(<ChainPlot plot={plot} />);
+    const svg = screen.getByRole('img', { name: /Level through the chain/ }) as unknown as SVGElement;
+    expect(svg.querySelector('[data-series="mirror"]')).toBeNull();
+    const x = axisMap(svg, 'x');
+    const y = axisMap(svg, 'y');
+    const steps = [...svg.querySelectorAll('[data-step]')].map((g) => {
+      const [px, py] = translation(g);
+      return { on: g.getAttribute('data-on'), vin: x(px), vout: y(py) };
+    });
+    expect(steps.map((s) => s.on)).toEqual(['pass', 'pass', 'curve']);
+    for (const s of steps.slice(0, 2)) {
+      expect(Math.abs(s.vin - passed)).toBeLessThan(0.005);
+      expect(Math.abs(s.vout - passed)).toBeLessThan(0.005);
+    }
+    // The receiver's corner: input the passed level, output the inverter's own answer for it.
+    expect(Math.abs(steps[2].vin - passed)).toBeLessThan(0.005);
+    expect(Math.abs(steps[2].vout - new TransferSolver(circuit).vout(passed))).toBeLessThan(0.01);
+    expect(screen.getAllByText('an element not plotted')).toHaveLength(2);
+    expect(screen.getByText(/Restored after stage 3 of 3/)).toBeInTheDocument();
   });
 });
 

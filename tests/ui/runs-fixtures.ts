@@ -116,6 +116,20 @@ export const FINDINGS: StoredFinding[] = [
     measured: { value: 2.5e-15, unit: 'F' },
     limit: null,
   }),
+  finding(107, {
+    ruleId: 'device.implausible-size',
+    severity: 'info',
+    message: 'Ma is 0.8 µm wide in a stack of 0.8 µm devices: plausible.',
+    file: 'lk_dom_and2.sp',
+    line: 9,
+    column: 2,
+    cell: 'lk_dom_and2',
+    nets: ['dyn', 'mid'],
+    devices: ['Ma'],
+    instances: 64,
+    measured: { value: 0.8e-6, unit: 'm' },
+    limit: null,
+  }),
 ];
 
 export const RULES: RuleCatalogueEntry[] = [
@@ -148,7 +162,7 @@ function runView(id: string, createdAt: string, summary: RunView['summary']): Ru
 }
 
 export const RUN: RunDetail = {
-  ...runView(RUN_ID, '2025-12-02T09:40:00Z', { cells: 2, devices: 704, instances: 76, parseErrors: 0, errors: 1, warnings: 3, infos: 2, elapsedMs: 3900 }),
+  ...runView(RUN_ID, '2025-12-02T09:40:00Z', { cells: 2, devices: 704, instances: 76, parseErrors: 0, errors: 1, warnings: 3, infos: 3, elapsedMs: 3900 }),
   diagnostics: [],
   breakdown: {
     byRule: [
@@ -157,10 +171,10 @@ export const RUN: RunDetail = {
       { ruleId: 'dynamic.precharge', severity: 'warning', findings: 1, instances: 64 },
       { ruleId: 'stage.noise-margin', severity: 'warning', findings: 1, instances: 12 },
       { ruleId: 'stage.noise-margin', severity: 'info', findings: 1, instances: 64 },
-      { ruleId: 'device.implausible-size', severity: 'info', findings: 1, instances: 64 },
+      { ruleId: 'device.implausible-size', severity: 'info', findings: 2, instances: 128 },
     ],
     byCell: [
-      { cell: 'lk_dom_and2', cellInstances: 64, findings: 5, errors: 1, warnings: 2, infos: 2 },
+      { cell: 'lk_dom_and2', cellInstances: 64, findings: 6, errors: 1, warnings: 2, infos: 3 },
       { cell: 'lk_inv', cellInstances: 12, findings: 1, errors: 0, warnings: 1, infos: 0 },
     ],
   },

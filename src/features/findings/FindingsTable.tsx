@@ -75,11 +75,13 @@ function buildColumns(rules: Map<string, RuleCatalogueEntry> | undefined): Colum
       accessorKey: 'ruleId',
       cell: ({ row }) => {
         const title = rules?.get(row.original.ruleId)?.title;
-        return (
-          <span className="block min-w-[9rem]">
-            {title && <span className="block text-ink-900">{title}</span>}
-            <span className="font-mono text-xs text-ink-600">{row.original.ruleId}</span>
+        // The rule's title when the catalogue has it (its id is in the detail and on hover), else its id.
+        return title ? (
+          <span className="line-clamp-3 block min-w-[8rem] text-ink-900" title={row.original.ruleId}>
+            {title}
           </span>
+        ) : (
+          <span className="font-mono text-xs text-ink-700">{row.original.ruleId}</span>
         );
       },
     },
@@ -88,7 +90,7 @@ function buildColumns(rules: Map<string, RuleCatalogueEntry> | undefined): Colum
       header: COLUMN_LABELS.message,
       accessorKey: 'message',
       cell: ({ row }) => (
-        <span className="line-clamp-2 min-w-[16rem] text-ink-800" title={row.original.message}>
+        <span className="line-clamp-2 min-w-[13rem] text-ink-800" title={row.original.message}>
           {row.original.message}
         </span>
       ),
@@ -287,7 +289,7 @@ export function FindingsTable({
                     <th
                       key={header.id}
                       scope="col"
-                      className="whitespace-nowrap px-3 py-2.5"
+                      className="whitespace-nowrap px-2.5 py-2.5"
                       aria-sort={sorted === 'asc' ? 'ascending' : sorted === 'desc' ? 'descending' : header.column.getCanSort() ? 'none' : undefined}
                     >
                       {header.column.getCanSort() ? (
@@ -326,7 +328,7 @@ export function FindingsTable({
                   }`}
                 >
                   {row.getVisibleCells().map((cell) => (
-                    <td key={cell.id} className="px-3 py-2.5 text-ink-800">
+                    <td key={cell.id} className="px-2.5 py-2.5 text-ink-800">
                       {flexRender(cell.column.columnDef.cell, cell.getContext())}
                     </td>
                   ))}

@@ -12,8 +12,8 @@ import { MarkerGlyph, type MarkerShape } from './markers';
 
 export type TransferPlotData = z.infer<typeof transferPlotSchema>;
 
-const WIDTH = 392;
-const HEIGHT = 380;
+const WIDTH = 356;
+const HEIGHT = 350;
 
 interface Point {
   key: 'vm' | 'vil' | 'vih';
@@ -71,7 +71,7 @@ export function TransferPlot({ plot, title = 'Transfer curve' }: { plot: Transfe
           strokeWidth="1.2"
           strokeDasharray="5 4"
         />
-        <text x={x(0.97 * plot.vdd)} y={y(0.97 * plot.vdd) + 14} textAnchor="end" fontSize="10.5" fill={ink[600]}>
+        <text x={x(0.97 * plot.vdd)} y={y(0.97 * plot.vdd) + 14} textAnchor="end" fontSize="11.5" fill={ink[600]}>
           Vout = Vin
         </text>
         <path data-series="curve" d={polylinePath(plot.vin.map(x), plot.vout.map(y))} fill="none" stroke={well[800]} strokeWidth="2.2" strokeLinejoin="round" />
@@ -94,7 +94,7 @@ export function TransferPlot({ plot, title = 'Transfer curve' }: { plot: Transfe
           <g key={p.key} data-marker={p.key} transform={`translate(${x(p.vin).toFixed(2)} ${y(p.vout).toFixed(2)})`}>
             <line x1={0} y1={0} x2={0} y2={frame.bottom - y(p.vout)} stroke={ink[400]} strokeWidth="1" strokeDasharray="1 3" />
             <MarkerGlyph shape={p.shape} />
-            <text x={p.dx} y={p.dy} textAnchor={p.anchor} fontSize="11.5" fontWeight="600" fill={ink[900]} paintOrder="stroke" stroke="white" strokeWidth="3">
+            <text x={p.dx} y={p.dy} textAnchor={p.anchor} fontSize="12.5" fontWeight="600" fill={ink[900]} paintOrder="stroke" stroke="white" strokeWidth="3">
               {p.name} {formatVolts(p.vin)}
             </text>
           </g>

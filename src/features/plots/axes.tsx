@@ -53,7 +53,7 @@ export interface Frame {
   bottom: number;
 }
 
-export function plotFrame(width: number, height: number, margins = { left: 54, right: 18, top: 14, bottom: 46 }): Frame {
+export function plotFrame(width: number, height: number, margins = { left: 52, right: 16, top: 14, bottom: 46 }): Frame {
   return { width, height, left: margins.left, right: width - margins.right, top: margins.top, bottom: height - margins.bottom };
 }
 
@@ -69,7 +69,7 @@ export function Axes({ frame, x, y, xTitle, yTitle, xTicks, yTicks, grid = true 
 }) {
   const { left, right, top, bottom } = frame;
   return (
-    <g className="kw-plot-axes" fontSize="11" fill={ink[700]}>
+    <g className="kw-plot-axes" fontSize="12" fill={ink[700]}>
       {grid && (
         <g stroke={ink[200]} strokeWidth="1">
           {xTicks.map((t) => (

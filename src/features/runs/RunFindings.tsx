@@ -76,7 +76,7 @@ export function RunFindings({ run }: { run: RunDetail }) {
 
   return (
     <div className="space-y-6">
-      <div className="grid gap-6 xl:grid-cols-[minmax(0,1fr)_26rem] 2xl:grid-cols-[minmax(0,1fr)_30rem]">
+      <div className="grid gap-6 xl:grid-cols-[minmax(0,1fr)_24rem] 2xl:grid-cols-[minmax(0,1fr)_30rem]">
         <section aria-labelledby="findings-heading" className="min-w-0">
           <h2 id="findings-heading" className="sr-only">
             Findings

@@ -44,6 +44,24 @@ export function deviceLines(text: string, cell: string, devices: readonly string
   return found;
 }
 
+const TONE_ORDER: GutterMark['tone'][] = ['error', 'warning', 'info', 'waived'];
+
+/** One gutter mark per line: the most severe open finding's tone, every finding's message on hover, a click opening the most severe. */
+export function lineMarks(findings: readonly StoredFinding[]): GutterMark[] {
+  const byLine = new Map<number, StoredFinding[]>();
+  for (const f of findings) byLine.set(f.line, [...(byLine.get(f.line) ?? []), f]);
+  const toneOf = (f: StoredFinding): GutterMark['tone'] => (f.status === 'waived' ? 'waived' : f.severity);
+  return [...byLine].map(([line, list]) => {
+    const sorted = list.slice().sort((a, b) => TONE_ORDER.indexOf(toneOf(a)) - TONE_ORDER.indexOf(toneOf(b)));
+    return { line, tone: toneOf(sorted[0]), label: sorted.map((f) => `${f.ruleId}: ${f.message}`).join('\n\n'), id: String(sorted[0].id) };
+  });
+}
+
+function lineCount(text: string) {
+  const lines = text.split(/\r\n|\r|\n/).length;
+  return /(\r\n|\r|\n)$/.test(text) ? lines - 1 : lines;
+}
+
 export function RunNetlistView({ run, selected, onSelect }: { run: RunDetail; selected: StoredFinding | null; onSelect: (finding: StoredFinding) => void }) {
   const paths = run.files.map((f) => f.path);
   const [current, setCurrent] = useState<string>(selected?.file ?? paths[0] ?? '');
@@ -65,10 +83,7 @@ export function RunNetlistView({ run, selected, onSelect }: { run: RunDetail; se
 
   const marksQuery = useQuery({ ...fileFindingsQuery(run.id, current), enabled: Boolean(current) });
   const inFile = marksQuery.data?.items ?? [];
-  const marks = useMemo<GutterMark[]>(
-    () => inFile.map((f) => ({ line: f.line, tone: f.status === 'waived' ? 'waived' : f.severity, label: `${f.ruleId}: ${f.message}`, id: String(f.id) })),
-    [inFile],
-  );
+  const marks = useMemo(() => lineMarks(inFile), [inFile]);
   const highlights = useMemo<HighlightRange[]>(() => {
     if (!selected || selected.file !== current || !currentFile) return [];
     const tone: HighlightRange['tone'] = selected.status === 'waived' ? 'waived' : selected.severity;
@@ -90,20 +105,22 @@ export function RunNetlistView({ run, selected, onSelect }: { run: RunDetail; se
       <div className="flex flex-wrap items-center justify-between gap-3 border-b border-ink-200 bg-ink-50 px-3 py-2">
         <div className="flex items-center gap-2 text-sm">
           {paths.length > 1 ? (
-            <label className="flex items-center gap-2">
-              <span className="font-medium text-ink-700">File</span>
-              <select className="h-8 rounded-md border border-ink-300 bg-white px-2 font-mono text-sm" value={current} onChange={(e) => setCurrent(e.target.value)}>
+            <>
+              <label htmlFor="netlist-file" className="font-medium text-ink-700">
+                File
+              </label>
+              <select id="netlist-file" className="h-8 rounded-md border border-ink-300 bg-white px-2 font-mono text-sm" value={current} onChange={(e) => setCurrent(e.target.value)}>
                 {paths.map((p) => (
                   <option key={p} value={p}>
                     {p}
                   </option>
                 ))}
               </select>
-            </label>
+            </>
           ) : (
             <span className="font-mono text-ink-800">{current}</span>
           )}
-          {currentFile && <span className="text-xs text-ink-500">{currentFile.text.split('\n').length} lines</span>}
+          {currentFile && <span className="text-xs text-ink-500">{lineCount(currentFile.text)} lines</span>}
         </div>
         <div className="flex items-center gap-2 text-sm">
           <span className="tabular-nums text-ink-600" aria-live="polite">
