@@ -141,7 +141,7 @@ export async function listFindings(ctx: Ctx, teamId: string, runId: string, quer
   // Unfiltered but for severity, the total is in the run's summary (written with the findings, in one transaction).
   const s = run.summary;
   const countedTotal =
-    s && run.state === 'succeeded' && !query.rule?.length && !query.cell?.length && !query.q && !query.status
+    s && run.state === 'succeeded' && !query.rule?.length && !query.cell?.length && !query.q && !query.status && !query.file
       ? [{ total: (['error', 'warning', 'info'] as const).filter((v) => !query.severity?.length || query.severity.includes(v)).reduce((n, v) => n + (v === 'error' ? s.errors : v === 'warning' ? s.warnings : s.infos), 0) }]
       : null;
   // The page's ids first, from the sort's index alone; only those 50 rows are then read whole.

@@ -295,6 +295,8 @@ describe('runs', () => {
     const ranks = bySeverity.map((f: { severity: string }) => rank[f.severity]);
     expect(ranks).toEqual([...ranks].sort((x, y) => x - y));
 
+    expect((await agent.get(`/api/runs/${run.id}/findings`).query({ file: 'f.sp' }).expect(200)).body.total).toBe(expected.length);
+    expect((await agent.get(`/api/runs/${run.id}/findings`).query({ file: 'other.sp', severity: 'error' }).expect(200)).body.total).toBe(0);
     const sized = (await agent.get(`/api/runs/${run.id}/findings`).query({ rule: 'device.implausible-size', severity: 'error' }).expect(200)).body;
     expect(sized.total).toBe(6);
     const oneCell = (await agent.get(`/api/runs/${run.id}/findings`).query({ cell: 'lf4' }).expect(200)).body;
