@@ -10,7 +10,7 @@
 import crypto from 'node:crypto';
 import type { Permission } from '../../shared/roles';
 import type { Team } from '../../server/db/models';
-import { MailMessage, Run } from '../../server/db/models';
+import { FindingRow, MailMessage, Run } from '../../server/db/models';
 import { createUser, uniqueEmail, type CreatedUser, type TestEnv } from './helpers';
 import { defaultDeck } from '../../rules/default-deck';
 import { INVERTER_NETLIST, makeDeck, makeNetlist, type DeckFixture } from './decks-fixtures';
@@ -117,6 +117,18 @@ export const ROUTES: RouteCase[] = [
   },
   { method: 'get', path: async (fx) => `/api/runs/${(await makeFinishedRun(fx)).id}`, permission: 'design.read' },
   { method: 'get', path: async (fx) => `/api/runs/${(await makeFinishedRun(fx)).id}/findings`, permission: 'design.read' },
+  {
+    method: 'get',
+    path: async (fx) => {
+      const run = await makeFinishedRun(fx);
+      const finding = await FindingRow.create({
+        runId: run.id, ruleId: 'device.implausible-size', severity: 'error', message: 'fixture finding', file: 'top.sp', line: 3, column: 1,
+        cell: 'tinv', nets: [], devices: ['Mp'], instances: 1, measured: null, limit: null, fingerprint: '00000000000001', corner: null, plot: null,
+      });
+      return `/api/runs/${run.id}/findings/${finding.id}`;
+    },
+    permission: 'design.read',
+  },
   { method: 'get', path: async (fx) => `/api/runs/${(await makeFinishedRun(fx)).id}/files`, permission: 'design.read' },
   { method: 'get', path: async (fx) => `/api/runs/${(await makeFinishedRun(fx)).id}/file?path=top.sp`, permission: 'design.read' },
   {
