@@ -338,7 +338,22 @@ async function journey(base: string) {
       const steps = await plot.locator('[data-step]').count();
       check(steps === (chain!.plot as { levels: number[] }).levels.length - 1, `the chain plot draws one staircase corner per stage (${steps})`);
       say(`screenshot ${path.relative(repoRoot, await screenshot(page, 'chain-plot', { folder: 'review' }))}`);
-      await plot.screenshot({ path: path.join(repoRoot, 'test-artifacts', 'review', 'chain-plot-figure.png') });
+      await plot.locator('xpath=ancestor::figure').screenshot({ path: path.join(repoRoot, 'test-artifacts', 'review', 'chain-plot-figure.png') });
+    }
+
+    // The other two pictures, as figures: a stage's transfer curve and the dynamic node's budget bars.
+    for (const [kind, name] of [
+      ['transfer', 'transfer-plot-figure'],
+      ['budget', 'budget-plot-figure'],
+    ] as const) {
+      const withPlot = (await apiGet<{ items: StoredFinding[] }>(page, `/api/runs/${run.id}/findings?pageSize=200`)).items.find((f) => f.plot?.kind === kind);
+      if (!withPlot) continue;
+      await page.goto(`/runs/${run.id}?tab=findings&finding=${withPlot.id}`);
+      const figure = page.locator(`svg[data-plot="${kind}"]`);
+      await figure.waitFor({ timeout: 20_000 });
+      await figure.scrollIntoViewIfNeeded();
+      await figure.locator('xpath=ancestor::figure').screenshot({ path: path.join(repoRoot, 'test-artifacts', 'review', `${name}.png`) });
+      say(`screenshot test-artifacts/review/${name}.png (${withPlot.ruleId})`);
     }
 
     // The same review at the smallest supported width.
@@ -354,7 +369,23 @@ async function journey(base: string) {
     await page.setViewportSize({ width: 1440, height: 960 });
     const first = await uploadNetlist(page, base, NETLIST_SET, 'Review journey: comparison base.');
     const moved = NETLIST_SET.map((f) => ({ ...f, text: `* every line moved down by one for the comparison check\n${f.text}` }));
-    const second = await uploadNetlist(page, base, moved, 'Review journey: the same netlist with its lines moved.');
+    // The second set goes through the block page's form, as a designer submits it.
+    await page.goto(`/blocks/${first.block.id}`);
+    await page.getByRole('button', { name: /Submit a netlist/ }).click();
+    const form = page.getByRole('form', { name: 'Submit a netlist for checking' });
+    await form.getByLabel('Netlist files or a bundle').setInputFiles(moved.map((f) => ({ name: f.path, mimeType: 'text/plain', buffer: Buffer.from(f.text) })));
+    await form.getByRole('list', { name: 'Files to submit' }).waitFor();
+    const deckChoice = form.getByRole('combobox', { name: 'Rule deck version' });
+    await page.waitForFunction(() => (document.querySelector('#run-deck-version') as HTMLSelectElement | null)?.value !== '');
+    check((await deckChoice.inputValue()) === first.deck.versionId, 'the form preselects the team’s default deck version, the one the API used');
+    await form.getByRole('textbox', { name: 'Note' }).fill('Review journey: the same netlist with its lines moved.');
+    say(`screenshot ${path.relative(repoRoot, await screenshot(page, 'submit-form', { folder: 'review', fullPage: false }))}`);
+    await form.getByRole('button', { name: 'Start the check' }).click();
+    await page.waitForURL((u) => /^\/runs\/[0-9a-f-]{36}$/.test(u.pathname));
+    const secondId = new URL(page.url()).pathname.split('/').pop()!;
+    await page.locator('[data-state="succeeded"]').first().waitFor({ timeout: 180_000 });
+    check(true, 'the run page followed the submitted run until it finished');
+    const second = await apiGet<RunView>(page, `/api/runs/${secondId}`);
     const compared = await apiGet<{ counts: { new: number; fixed: number; persisting: number } }>(page, `/api/runs/${second.id}/compare/${first.id}?kind=persisting`);
     const firstTotal = (await apiGet<{ total: number }>(page, `/api/runs/${first.id}/findings?pageSize=1`)).total;
     check(compared.counts.new === 0 && compared.counts.fixed === 0 && compared.counts.persisting === firstTotal, `moved lines still match: ${JSON.stringify(compared.counts)} of ${firstTotal} findings`);

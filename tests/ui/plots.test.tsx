@@ -141,7 +141,7 @@ describe('transfer curve plot', () => {
     render(<TransferPlot plot={weak} />);
     const svg = screen.getByRole('img', { name: /no unity-gain points/ });
     expect(svg.querySelector('[data-marker="vil"]')).toBeNull();
-    expect(screen.getByText(/does not restore a level/)).toBeInTheDocument();
+    expect(screen.getByText(/does not restore a disturbed level/)).toBeInTheDocument();
   });
 });
 

@@ -193,6 +193,44 @@ describe('run page', () => {
     expect(screen.getByRole('columnheader', { name: 'Was at' })).toBeInTheDocument();
   });
 
+  it('follows a queued run through its progress to its findings, and lets its submitter cancel it meanwhile', async () => {
+    let state: 'queued' | 'running' | 'succeeded' = 'queued';
+    const api = fakeApi({
+      ...sessionRoutes(users.designer),
+      ...runRoutes(),
+      [`GET /api/runs/${RUN_ID}`]: () =>
+        json(
+          200,
+          state === 'succeeded'
+            ? RUN
+            : {
+                ...RUN,
+                state,
+                summary: null,
+                breakdown: null,
+                finishedAt: null,
+                progress: state === 'queued' ? null : { stage: 'checking', done: 1, total: 4, label: 'Checking cells', updatedAt: RUN.createdAt },
+              },
+        ),
+      [`POST /api/runs/${RUN_ID}/cancel`]: () => json(200, { ...EARLIER_RUN, id: RUN_ID, state: 'cancelled' }),
+    });
+    renderApp(`/runs/${RUN_ID}`);
+    const bar = await screen.findByRole('progressbar');
+    // Queued: no count yet, so no value — an indeterminate bar, announced by its text.
+    expect(bar).not.toHaveAttribute('aria-valuenow');
+    expect(bar).toHaveAttribute('aria-valuetext', 'Waiting for a worker');
+    expect(screen.queryByRole('grid')).not.toBeInTheDocument();
+    await userEvent.setup().click(screen.getByRole('button', { name: 'Cancel run' }));
+    await waitFor(() => expect(api.callsTo(`POST /api/runs/${RUN_ID}/cancel`)).toHaveLength(1));
+
+    state = 'running';
+    await waitFor(() => expect(screen.getByRole('progressbar')).toHaveAttribute('aria-valuenow', '25'), { timeout: 5000 });
+    state = 'succeeded';
+    await waitFor(() => expect(screen.getByRole('grid')).toBeInTheDocument(), { timeout: 5000 });
+    expect(screen.queryByRole('progressbar')).not.toBeInTheDocument();
+    expect(screen.queryByRole('button', { name: 'Cancel run' })).not.toBeInTheDocument();
+  }, 15_000);
+
   it('a failed run says why and lists what the reader found in the netlist', async () => {
     fakeApi({
       ...sessionRoutes(users.designer),

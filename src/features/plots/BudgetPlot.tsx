@@ -13,8 +13,8 @@ import { linearScale } from './axes';
 
 export type BudgetPlotData = z.infer<typeof budgetPlotSchema>;
 
-const WIDTH = 420;
-const ROW = 64;
+const WIDTH = 380;
+const ROW = 66;
 const LEFT = 8;
 const RIGHT = WIDTH - 12;
 
@@ -48,10 +48,10 @@ export function BudgetPlot({ plot, title = 'Budget against limits' }: { plot: Bu
           const barY = top + 20;
           return (
             <g key={bar.label} data-bar={bar.label} data-failing={verdict.failing}>
-              <text x={LEFT} y={top + 12} fontSize="12" fontWeight="600" fill={ink[900]}>
+              <text x={LEFT} y={top + 12} fontSize="13" fontWeight="600" fill={ink[900]}>
                 {bar.label}
               </text>
-              <text x={RIGHT} y={top + 12} fontSize="11.5" textAnchor="end" fill={verdict.failing ? tone.error.fg : ink[700]} fontWeight={verdict.failing ? 600 : 400}>
+              <text x={RIGHT} y={top + 12} fontSize="12.5" textAnchor="end" fill={verdict.failing ? tone.error.fg : ink[700]} fontWeight={verdict.failing ? 600 : 400}>
                 {formatQuantity(bar.measured)} · {verdict.words}
               </text>
               <rect x={LEFT} y={barY} width={RIGHT - LEFT} height={16} fill={ink[100]} />
@@ -67,7 +67,7 @@ export function BudgetPlot({ plot, title = 'Budget against limits' }: { plot: Bu
               />
               <g data-limit={bar.limit.value} transform={`translate(${x(bar.limit.value).toFixed(2)} 0)`}>
                 <line x1={0} x2={0} y1={barY - 4} y2={barY + 20} stroke={ink[900]} strokeWidth="2.2" />
-                <text x={0} y={barY + 32} fontSize="10.5" textAnchor="middle" fill={ink[800]}>
+                <text x={0} y={barY + 32} fontSize="11.5" textAnchor="middle" fill={ink[800]}>
                   {bar.sense === 'max' ? 'limit' : 'minimum'} {formatQuantity(bar.limit)}
                 </text>
               </g>

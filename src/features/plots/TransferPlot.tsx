@@ -71,7 +71,7 @@ export function TransferPlot({ plot, title = 'Transfer curve' }: { plot: Transfe
           strokeWidth="1.2"
           strokeDasharray="5 4"
         />
-        <text x={x(0.97 * plot.vdd)} y={y(0.97 * plot.vdd) + 14} textAnchor="end" fontSize="11.5" fill={ink[600]}>
+        <text x={x(0.97 * plot.vdd)} y={y(0.9 * plot.vdd)} textAnchor="end" fontSize="11.5" fill={ink[600]} paintOrder="stroke" stroke="white" strokeWidth="3">
           Vout = Vin
         </text>
         <path data-series="curve" d={polylinePath(plot.vin.map(x), plot.vout.map(y))} fill="none" stroke={well[800]} strokeWidth="2.2" strokeLinejoin="round" />
@@ -108,25 +108,24 @@ export function TransferPlot({ plot, title = 'Transfer curve' }: { plot: Transfe
             ...points.map((p) => ({ glyph: p.shape, label: p.key === 'vm' ? 'VM: switching threshold' : `${p.name}: slope ${slopeSign < 0 ? '−1' : '+1'} (unity gain)` })),
           ]}
         />
-        <dl className="mt-2 grid grid-cols-[auto_1fr_auto_1fr] gap-x-3 gap-y-0.5 tabular-nums">
+        <p className="mt-2">
+          Gain at VM {plot.gainAtVm.toFixed(2)} V/V: {restores ? '|gain| > 1, the stage restores a disturbed level.' : '|gain| ≤ 1, the stage does not restore a disturbed level.'}
+        </p>
+        <dl className="mt-1 grid grid-cols-[auto_1fr_auto_1fr] gap-x-3 gap-y-0.5 tabular-nums">
           <dt className="text-ink-500">VM</dt>
           <dd>{formatVolts(plot.vm)}</dd>
-          <dt className="text-ink-500">Gain at VM</dt>
+          <dt className="text-ink-500">VOL / VOH</dt>
           <dd>
-            {plot.gainAtVm.toFixed(2)} V/V ({restores ? '|gain| > 1, restores a level' : '|gain| ≤ 1, does not restore a level'})
+            {formatVolts(plot.vol)} / {formatVolts(plot.voh)}
           </dd>
           <dt className="text-ink-500">VIL</dt>
           <dd>{plot.vil === null ? 'none' : formatVolts(plot.vil)}</dd>
           <dt className="text-ink-500">VIH</dt>
           <dd>{plot.vih === null ? 'none' : formatVolts(plot.vih)}</dd>
-          <dt className="text-ink-500">VOL</dt>
-          <dd>{formatVolts(plot.vol)}</dd>
-          <dt className="text-ink-500">VOH</dt>
-          <dd>{formatVolts(plot.voh)}</dd>
-          <dt className="text-ink-500">NML = VIL − VOL</dt>
-          <dd>{nml === null ? '—' : formatVolts(nml)}</dd>
-          <dt className="text-ink-500">NMH = VOH − VIH</dt>
-          <dd>{nmh === null ? '—' : formatVolts(nmh)}</dd>
+          <dt className="text-ink-500">NML</dt>
+          <dd title="VIL − VOL">{nml === null ? '—' : formatVolts(nml)}</dd>
+          <dt className="text-ink-500">NMH</dt>
+          <dd title="VOH − VIH">{nmh === null ? '—' : formatVolts(nmh)}</dd>
         </dl>
       </figcaption>
     </figure>
