@@ -399,6 +399,12 @@ async function journey(base: string) {
     await page.getByRole('table', { name: /Runs of/ }).waitFor();
     say(`screenshot ${path.relative(repoRoot, await screenshot(page, 'block-runs', { folder: 'review' }))}`);
 
+    // On a large monitor.
+    await page.setViewportSize({ width: 1920, height: 1080 });
+    await page.goto(`/runs/${run.id}?tab=findings&finding=${finding.id}`);
+    await page.locator('.view-overlays .kw-line-focus').first().waitFor({ timeout: 20_000 });
+    say(`screenshot ${path.relative(repoRoot, await screenshot(page, 'run-1920', { folder: 'review', fullPage: false }))}`);
+
     // A shared link to a finding that the filtered table does not hold is opened by its id.
     const otherSeverity = finding.severity === 'info' ? 'error' : 'info';
     await page.goto(`/runs/${run.id}?tab=findings&severity=${otherSeverity}&finding=${finding.id}`);

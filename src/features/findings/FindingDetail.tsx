@@ -45,6 +45,7 @@ export function FindingDetail({
   headingLevel?: 2 | 3;
 }) {
   const Heading = headingLevel === 2 ? 'h2' : 'h3';
+  const SubHeading = headingLevel === 2 ? 'h3' : 'h4';
   const waived = finding.status === 'waived';
   return (
     <article aria-labelledby="finding-title" className="space-y-4 text-sm" data-finding={finding.id}>
@@ -114,25 +115,25 @@ export function FindingDetail({
 
       {finding.plot && (
         <section aria-label={PLOT_TITLES[finding.plot.kind]} className="rounded-md border border-ink-200 bg-white p-3">
-          <Heading className="mb-2 text-sm font-semibold text-ink-900">{PLOT_TITLES[finding.plot.kind]}</Heading>
+          <SubHeading className="mb-2 text-sm font-semibold text-ink-900">{PLOT_TITLES[finding.plot.kind]}</SubHeading>
           <FindingPlot plot={finding.plot} />
         </section>
       )}
 
       <section aria-label="Why it matters">
-        <Heading className="text-sm font-semibold text-ink-900">Why it matters</Heading>
+        <SubHeading className="text-sm font-semibold text-ink-900">Why it matters</SubHeading>
         <p className="mt-1 leading-6 text-ink-700">{rule?.rationale ?? (ruleLoading ? 'Loading…' : 'This rule’s description is not available.')}</p>
       </section>
       <section aria-label="How to fix it">
-        <Heading className="text-sm font-semibold text-ink-900">How to fix it</Heading>
+        <SubHeading className="text-sm font-semibold text-ink-900">How to fix it</SubHeading>
         <p className="mt-1 leading-6 text-ink-700">{rule?.fix ?? (ruleLoading ? 'Loading…' : '—')}</p>
       </section>
 
       <section aria-label="Waiver" className="rounded-md border border-dashed border-ink-300 bg-ink-50 px-3 py-2.5">
-        <Heading className="flex items-center gap-1.5 text-sm font-semibold text-ink-900">
+        <SubHeading className="flex items-center gap-1.5 text-sm font-semibold text-ink-900">
           <ToneGlyph tone="waived" size={11} />
           Waiver
-        </Heading>
+        </SubHeading>
         <p className="mt-1 text-ink-700" data-waiver-state={finding.status}>
           {waived ? 'Waived: an approved waiver of your team covers this finding.' : 'Not waived.'}
         </p>
