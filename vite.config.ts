@@ -45,7 +45,7 @@ export default defineConfig({
         test: {
           name: 'unit',
           environment: 'node',
-          include: ['tests/{grammar,electrical,rules,shared,cli}/**/*.test.ts'],
+          include: ['tests/{grammar,electrical,rules,shared,cli,recognition}/**/*.test.ts'],
           testTimeout: 60_000,
         },
       },

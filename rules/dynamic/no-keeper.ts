@@ -20,6 +20,8 @@ export default defineRule({
   params: z.object({
     // Rule of thumb of the trade: leave a tenth of a volt between the decayed level and the receiver's threshold.
     margin: z.number().min(0).max(2).default(0.1).meta({ unit: 'V', label: 'Margin kept above the receiver’s threshold' }),
+    // A team that accepts unkept nodes with a long hold time (precharged bit lines read within one cycle, say) sets this;
+    // leakage figures per µm are good to an order of magnitude, so ten periods is a sensible value then.
     acceptHoldRatio: z
       .number()
       .min(0)
@@ -41,7 +43,9 @@ export default defineRule({
       const verdict =
         worst.hold < period
           ? `shorter than the slowest clock period of ${s(period)}: the node decays before the clock returns`
-          : `against the slowest clock period of ${s(period)}, with nothing to hold it against noise`;
+          : p.acceptHoldRatio > 0
+            ? `only ${(worst.hold / period).toPrecision(2)} times the slowest clock period of ${s(period)}, short of the ${p.acceptHoldRatio}× the deck asks of a node with no keeper`
+            : `against the slowest clock period of ${s(period)}, with nothing to hold it against noise`;
       report({
         message:
           `${nodeLabel(d)} has no keeper. At corner ${b.corner} it holds for ${s(worst.hold)} ` +

@@ -4,8 +4,8 @@ import { dynamicNodesOf, type LoadKind } from '../recognition/dynamic';
 import { budgetPlot, nodeDevices, nodeLabel } from '../recognition/report';
 
 const BAD: Partial<Record<LoadKind, string>> = {
-  'pass-gate': 'gate of a pass device',
-  diffusion: 'device channel (a pass device or diffusion that shares its charge)',
+  'pass-gate': 'pass-device gate',
+  diffusion: 'device channel leading to an undriven net (sharing the node’s charge)',
   'other-gate': 'gate of a device in no recognised stage',
 };
 
@@ -33,13 +33,18 @@ export default defineRule({
       const tooMany = receivers.size > p.maxReceivers;
       if (!bad.length && !tooMany) continue;
       const parts: string[] = [];
-      if (bad.length) parts.push(`it drives ${bad.map((l) => `${l.device} (${BAD[l.kind]})`).join(', ')}`);
+      for (const kind of Object.keys(BAD) as LoadKind[]) {
+        const of = bad.filter((l) => l.kind === kind);
+        if (!of.length) continue;
+        const names = of.slice(0, 6).map((l) => l.device).join(', ') + (of.length > 6 ? ` and ${of.length - 6} more` : '');
+        parts.push(`it reaches ${of.length} ${BAD[kind]}${of.length > 1 ? 's' : ''}: ${names}`);
+      }
       if (tooMany) parts.push(`it drives ${receivers.size} stages, more than ${p.maxReceivers}`);
       report({
         message: `${nodeLabel(d)}: ${parts.join('; ')}. Only static gate inputs of its output stage belong on a dynamic node.`,
         loc: d.anchor,
         nets: [d.name],
-        devices: [...new Set([...nodeDevices(d), ...bad.map((l) => l.device)])],
+        devices: [...new Set([...nodeDevices(d), ...bad.map((l) => l.device)])].slice(0, 50),
         measured: { value: bad.length ? bad.length : receivers.size, unit: 'count' },
         limit: { value: bad.length ? 0 : p.maxReceivers, unit: 'count' },
         plot: tooMany

@@ -22,7 +22,7 @@ import { networkElements } from '../electrical/network';
 import type { DynamicInfo, Stage } from '../stages';
 import type { CellContext } from '../types';
 import { cellIndex, portsAreLocal, RESTORING_KINDS, type CellIndex } from './context';
-import { buildRegion, channelPorts, prechargePorts } from './region';
+import { buildRegion, channelPorts, prechargePorts, REGION_DRIVEN_KEY } from './region';
 import { drivenFromNode, isClockTiming, portRelation, timingOf, UNKNOWN, type Level, type Timing } from './timing';
 
 export type KeeperKind = 'half' | 'full' | 'always-on';
@@ -298,11 +298,20 @@ function recognise(ctx: CellContext, index: CellIndex, s: Stage, info: DynamicIn
     else kind = 'other-gate';
     loads.push({ kind, device: cell.mosfets[i].name, stage: sid >= 0 ? sid : null });
   }
+  // Channels outside the node's own stage are loads, except devices that conduct only with the precharge (an equalizer
+  // between two precharged lines) and devices to a net a restoring stage drives (a conditional evaluation path, such as
+  // a bit cell's access device to its storage node).
+  const drivenElsewhere = ctx.memo<Set<number>>(REGION_DRIVEN_KEY, () => new Set());
   const channel = index.channel.of(node);
   for (let k = 0; k < channel.length; k++) {
     const i = channel[k];
     if (own.has(i)) continue;
-    loads.push({ kind: 'diffusion', device: cell.mosfets[i].name, stage: index.stageOfMos[i] >= 0 ? index.stageOfMos[i] : null });
+    const m = cell.mosfets[i];
+    const far = index.alias[m.drain] === node ? index.alias[m.source] : index.alias[m.drain];
+    if (index.alias[m.gate] === info.clock) continue;
+    const d = index.stages.driverOf.get(far);
+    if ((d !== undefined && RESTORING_KINDS.has(index.stages.stages[d].kind)) || drivenElsewhere.has(far)) continue;
+    loads.push({ kind: 'diffusion', device: m.name, stage: index.stageOfMos[i] >= 0 ? index.stageOfMos[i] : null });
   }
   const os = index.others.of(node);
   for (let k = 0; k < os.length; k++) {

@@ -4,10 +4,11 @@
 // stage is a channel network between two observed nets that touches no rail (one n-
 // or p-channel device, a transmission gate, or a series string through unobserved
 // nodes). Here pass stages become edges of a graph over nets, weighted by how many
-// devices a signal crosses in series. A chain runs from a driver (a net some stage
-// drives, a port, an instance pin) through pass edges to a receiver: a net that
-// gates a restoring stage (static, ratioed, clocked or dynamic), where the level is
-// restored. Each receiver's chain is its longest shortest path back to a driver.
+// devices a signal crosses in series. A chain runs from a driver (a net a restoring
+// stage drives, a port, an instance pin) through pass edges, and through dynamic
+// nodes on the way (a Manchester carry chain), to a receiver: a net that gates a
+// restoring or dynamic stage, where the level is restored. Each receiver's chain is
+// its longest shortest path back to a driver.
 //
 // An edge passes a full high level only if some parallel branch of it is p-channel
 // all the way (an n-channel device stops a high one threshold below its gate), and a
@@ -112,8 +113,9 @@ export function passChainsOf(ctx: CellContext): PassChain[] {
     const stages = index.stages.stages;
     const local = portsAreLocal(ctx);
     const sourceKind = (net: number): PassChain['sourceKind'] | null => {
+      // Restoring stages drive a chain; a dynamic node does not (it floats while it evaluates), so a chain runs through it.
       const d = index.stages.driverOf.get(net);
-      if (d !== undefined && stages[d].kind !== 'other') return 'stage';
+      if (d !== undefined && RESTORING_KINDS.has(stages[d].kind)) return 'stage';
       if (index.isPort[net]) return 'port';
       if (index.pinInstances.count(net)) return 'instance';
       return null;

@@ -17,11 +17,14 @@
 
 import type { Capacitor, Cell, Mosfet, RailKind, Resistor, SourceLoc } from '../../grammar/design';
 import type { CellContext } from '../types';
-import { cellIndex, childContext, designMemo, makeContext, pinRails, terminalsOf, type CellIndex } from './context';
+import { cellIndex, childContext, designMemo, makeContext, pinRails, RESTORING_KINDS, terminalsOf, type CellIndex } from './context';
 import { primeClockHint, timingOf, type Timing } from './timing';
 
 /** Past this many devices a region is not built (a power grid or a global net, not a bit line). */
 export const MAX_REGION_DEVICES = 20_000;
+
+/** Memo key of a region context: synthetic nets that a restoring stage drives in the cell owning them. */
+export const REGION_DRIVEN_KEY = 'recognition.region-driven';
 
 export interface Region {
   /** Synthetic context holding the devices of the region; its cell's first port is the net. */
@@ -105,6 +108,8 @@ function build(ctx: CellContext, start: number): Region | null {
   const nets: string[] = [];
   const rails: (RailKind | undefined)[] = [];
   const isPortNet: boolean[] = [];
+  /** Nets a restoring stage drives in the cell that owns them (a bit cell's storage node, a driver outside the region). */
+  const driven = new Set<number>();
   /** Synthetic net of each (level path, local alias root). */
   const ids = new Map<string, number>();
   const rootNets = new Map<number, number>();
@@ -150,6 +155,8 @@ function build(ctx: CellContext, start: number): Region | null {
       const observed = l.parent === null || l.index.gates.count(x) > 0 || l.index.pinInstances.count(x) > 0;
       isPortNet.push(observed);
       if (l.parent === null) rootNets.set(x, id);
+      const d = l.index.stages.driverOf.get(x);
+      if (d !== undefined && RESTORING_KINDS.has(l.index.stages.stages[d].kind)) driven.add(id);
     }
     return id;
   };
@@ -275,5 +282,6 @@ function build(ctx: CellContext, start: number): Region | null {
   }
   const regionCtx = makeContext(ctx.design, ctx.deck, synthetic, rails, { instances: ctx.instances, signals, root: true });
   primeClockHint(regionCtx);
+  regionCtx.memo(REGION_DRIVEN_KEY, () => driven);
   return { ctx: regionCtx, node: startId, paths: [...paths].sort() };
 }

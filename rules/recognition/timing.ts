@@ -93,6 +93,8 @@ export interface TimingResult {
 
 const STATIC_EVALUATED: ReadonlySet<Stage['kind']> = new Set(['inverter', 'complementary', 'ratioed', 'clocked']);
 const MAX_UNKNOWN_INPUTS = 10;
+/** Times a derived timing may be recomputed before it stays as it is (feedback loops). */
+const MAX_CHANGES = 3;
 /** Placeholder phase of a port relation. */
 const RELATION_PHASE = '#';
 
@@ -213,7 +215,15 @@ function propagate(ctx: CellContext, index: CellIndex, seeds: readonly Seed[], s
   const named = new Uint8Array(n);
   const dynamic = new Map<number, DynamicInfo>();
   const refined: number[] = [];
-  for (const s of stages) if (s.kind === 'dynamic' && s.dynamic) dynamic.set(s.id, s.dynamic);
+  for (const s of stages) {
+    if (s.kind !== 'dynamic' || !s.dynamic || s.output === null) continue;
+    // Classification takes the first precharge-side device that shares its gate with the evaluation side; a full
+    // keeper (fed back from the node's inverter to both sides) looks like that too. The precharge is then another one.
+    const info = drivenFromNode(index, s.dynamic.clock, s.output) ? reselectPrecharge(ctx, index, s) : s.dynamic;
+    if (!info) continue;
+    dynamic.set(s.id, info);
+    if (info !== s.dynamic) refined.push(s.id);
+  }
   const logics = new Map<number, StageLogic>();
   const logicOf = (s: Stage) => {
     let l = logics.get(s.id);
@@ -228,14 +238,20 @@ function propagate(ctx: CellContext, index: CellIndex, seeds: readonly Seed[], s
     queue.push(seed.net);
   }
 
+  // A derived timing replaces a name-only root, and a derived timing is recomputed when its inputs change (a root that
+  // a trace replaced, say), a bounded number of times so that feedback loops settle.
+  const hard = new Uint8Array(n);
+  const changes = new Uint8Array(n);
+  for (const seed of seeds) if (!seed.named) hard[seed.net] = 1;
   const assign = (net: number, t: Timing | undefined) => {
-    if (!t || index.railOf(net)) return;
+    if (!t || index.railOf(net) || hard[net]) return;
     const old = timing[net];
-    if (old && !named[net]) return;
     if (old && timingSignature(old) === timingSignature(t)) {
       named[net] = 0;
       return;
     }
+    if (old && !named[net] && changes[net] >= MAX_CHANGES) return;
+    if (old) changes[net]++;
     timing[net] = t;
     named[net] = 0;
     queue.push(net);
@@ -415,6 +431,30 @@ function footlessDynamic(ctx: CellContext, index: CellIndex, s: Stage, gate: num
     }
   }
   return info;
+}
+
+/** A dynamic stage's precharge chosen among the direct precharge-side devices whose gate the node does not drive. */
+function reselectPrecharge(ctx: CellContext, index: CellIndex, s: Stage): DynamicInfo | null {
+  const old = s.dynamic!;
+  const nEval = old.style === 'n-evaluate';
+  const pre = nEval ? s.pullUp! : s.pullDown!;
+  const evaluation = nEval ? s.pullDown! : s.pullUp!;
+  const gateOf = (e: number) => (s.elements[e].kind === 'mos' ? index.alias[ctx.cell.mosfets[s.elements[e].index].gate] : -1);
+  const direct = pre.kind === 'leaf' ? [pre.element] : pre.kind === 'parallel' ? pre.children.filter((c) => c.kind === 'leaf').map((c) => (c as { element: number }).element) : [];
+  for (const e of direct) {
+    const g = gateOf(e);
+    if (g < 0 || index.railOf(g) || drivenFromNode(index, g, s.output!)) continue;
+    const m = ctx.cell.mosfets[s.elements[e].index];
+    if (m.polarity !== (nEval ? 'p' : 'n')) continue;
+    return {
+      style: old.style,
+      clock: g,
+      precharge: direct.filter((x) => gateOf(x) === g),
+      footer: networkElements(evaluation).filter((x) => gateOf(x) === g),
+      clockByName: false,
+    };
+  }
+  return null;
 }
 
 /** Whether `net` is the output of a stage that has `node` among its inputs (the feedback a keeper's gate takes). */
