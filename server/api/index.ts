@@ -18,6 +18,7 @@ import { deckRoutes, ruleCatalogueRoutes } from './routes/decks';
 import { healthRoutes } from './routes/health';
 import { runRoutes } from './routes/runs';
 import { uploadRoutes } from './routes/uploads';
+import { waiverRoutes } from './routes/waivers';
 
 export function apiRouter(ctx: AppContext): Router {
   const api = Router();
@@ -30,5 +31,6 @@ export function apiRouter(ctx: AppContext): Router {
   api.use('/rules', ruleCatalogueRoutes());
   api.use('/uploads', uploadRoutes(ctx));
   api.use('/runs', runRoutes(ctx));
+  api.use('/waivers', waiverRoutes(ctx));
   return api;
 }

@@ -8,10 +8,11 @@ import type { Quantity, FindingPlot } from '../../shared/findings';
 import type { Severity } from '../../shared/deck';
 import type { AppContext } from '../context';
 import { conflict, HttpError, notFound } from '../errors';
+import { findingStatus, statusSql, waiverClock, waiverColumns, waiverJoin, waiverReplacements, type WaiverColumns } from './waivers-status';
 
 type Ctx = Pick<AppContext, 'sequelize'>;
 
-interface FindingRowData {
+interface FindingRowData extends WaiverColumns {
   id: number;
   rule_id: string;
   severity: Severity;
@@ -28,37 +29,13 @@ interface FindingRowData {
   fingerprint: string;
   corner: string | null;
   plot: FindingPlot | null;
-  waived: boolean;
 }
+
+/** A run's findings joined to the waivers that decide their status (server/services/waivers-status.ts). */
+const matchOf = (teamId: string, blockId: string) => waiverReplacements({ teamId, blockId, now: waiverClock.now() });
 
 const FINDING_COLUMNS = `f.id, f.rule_id, f.severity, f.message, f.file, f.line, f."column", f.cell, f.nets, f.devices, f.instances,
-  f.measured, f."limit", f.fingerprint, f.corner, f.plot`;
-
-/**
- * An approved, unexpired waiver of the team covers a finding when it names the
- * finding's rule and fingerprint, or the rule and cell without a fingerprint, or the
- * whole rule; a waiver tied to a block covers only that block's runs. The team's
- * waivers are few next to a run's findings: they are read first and matched as
- * lists, so no per-finding subquery runs over 100 000 rows.
- */
-async function waivedCondition(ctx: Ctx, teamId: string, blockId: string): Promise<{ sql: string; replacements: Record<string, string[]> }> {
-  const waivers = await ctx.sequelize.query<{ rule_id: string; cell: string | null; fingerprint: string | null }>(
-    `select rule_id, cell, fingerprint from waivers
-     where team_id = :teamId and state = 'approved' and (expires_at is null or expires_at > now()) and (block_id is null or block_id = :blockId)`,
-    { replacements: { teamId, blockId }, type: QueryTypes.SELECT },
-  );
-  const byFingerprint = waivers.filter((w) => w.fingerprint).map((w) => `${w.rule_id}\u0001${w.fingerprint}`);
-  const byCell = waivers.filter((w) => !w.fingerprint && w.cell).map((w) => `${w.rule_id}\u0001${w.cell}`);
-  const byRule = waivers.filter((w) => !w.fingerprint && !w.cell).map((w) => w.rule_id);
-  const terms: string[] = [];
-  if (byFingerprint.length) terms.push(`(f.rule_id || chr(1) || f.fingerprint) in (:waivedFingerprints)`);
-  if (byCell.length) terms.push(`(f.rule_id || chr(1) || f.cell) in (:waivedCells)`);
-  if (byRule.length) terms.push(`f.rule_id in (:waivedRules)`);
-  return {
-    sql: terms.length ? `(${terms.join(' or ')})` : 'false',
-    replacements: { waivedFingerprints: byFingerprint, waivedCells: byCell, waivedRules: byRule },
-  };
-}
+  f.measured, f."limit", f.fingerprint, f.corner, f.plot, ${waiverColumns}`;
 
 function findingView(r: FindingRowData): StoredFinding {
   return {
@@ -78,7 +55,7 @@ function findingView(r: FindingRowData): StoredFinding {
     fingerprint: r.fingerprint,
     corner: r.corner,
     plot: r.plot,
-    status: r.waived ? 'waived' : 'open',
+    ...findingStatus(r),
   };
 }
 
@@ -110,9 +87,8 @@ const likePattern = (q: string) => `%${q.toLowerCase().replace(/[\\%_]/g, (c) =>
 
 export async function listFindings(ctx: Ctx, teamId: string, runId: string, query: FindingsQuery) {
   const run = await runOfTeam(ctx, teamId, runId);
-  const waived = await waivedCondition(ctx, teamId, run.block_id);
   const where = ['f.run_id = :runId'];
-  const replacements: Record<string, unknown> = { runId, limit: query.pageSize, offset: (query.page - 1) * query.pageSize, ...waived.replacements };
+  const replacements: Record<string, unknown> = { runId, limit: query.pageSize, offset: (query.page - 1) * query.pageSize, ...matchOf(teamId, run.block_id) };
   if (query.rule?.length) {
     where.push('f.rule_id in (:rules)');
     replacements.rules = query.rule;
@@ -133,8 +109,13 @@ export async function listFindings(ctx: Ctx, teamId: string, runId: string, quer
     where.push('f.file = :file');
     replacements.file = query.file;
   }
-  if (query.status) where.push(query.status === 'waived' ? waived.sql : `not ${waived.sql}`);
+  if (query.status) {
+    where.push(`${statusSql} = :status`);
+    replacements.status = query.status;
+  }
   const clause = where.join(' and ');
+  // The waiver join only where the status filters; otherwise the page's ids come from the sort's index alone.
+  const from = query.status ? `findings f ${waiverJoin}` : 'findings f';
   const dir = query.order === 'desc' ? 'desc' : 'asc';
   const order = (alias: string) => [...ORDER[query.sort], 'f.id'].map((c) => `${c.replace(/^f\./, `${alias}.`)} ${dir}`).join(', ');
 
@@ -147,11 +128,11 @@ export async function listFindings(ctx: Ctx, teamId: string, runId: string, quer
   // The page's ids first, from the sort's index alone; only those 50 rows are then read whole.
   const [rows, [{ total }]] = await Promise.all([
     ctx.sequelize.query<FindingRowData>(
-      `with page as (select f.id from findings f where ${clause} order by ${order('f')} limit :limit offset :offset)
-       select ${FINDING_COLUMNS}, ${waived.sql} as waived from page join findings f on f.id = page.id order by ${order('f')}`,
+      `with page as (select f.id from ${from} where ${clause} order by ${order('f')} limit :limit offset :offset)
+       select ${FINDING_COLUMNS} from page join findings f on f.id = page.id ${waiverJoin} order by ${order('f')}`,
       { replacements, type: QueryTypes.SELECT },
     ),
-    countedTotal ?? ctx.sequelize.query<{ total: number }>(`select cast(count(*) as integer) as total from findings f where ${clause}`, { replacements, type: QueryTypes.SELECT }),
+    countedTotal ?? ctx.sequelize.query<{ total: number }>(`select cast(count(*) as integer) as total from ${from} where ${clause}`, { replacements, type: QueryTypes.SELECT }),
   ]);
   return { items: rows.map(findingView), total, page: query.page, pageSize: query.pageSize };
 }
@@ -159,9 +140,8 @@ export async function listFindings(ctx: Ctx, teamId: string, runId: string, quer
 /** One finding of a run, by id, with its waiver status. */
 export async function getFinding(ctx: Ctx, teamId: string, runId: string, findingId: number): Promise<StoredFinding> {
   const run = await runOfTeam(ctx, teamId, runId);
-  const waived = await waivedCondition(ctx, teamId, run.block_id);
-  const rows = await ctx.sequelize.query<FindingRowData>(`select ${FINDING_COLUMNS}, ${waived.sql} as waived from findings f where f.run_id = :runId and f.id = :findingId`, {
-    replacements: { runId, findingId, ...waived.replacements },
+  const rows = await ctx.sequelize.query<FindingRowData>(`select ${FINDING_COLUMNS} from findings f ${waiverJoin} where f.run_id = :runId and f.id = :findingId`, {
+    replacements: { runId, findingId, ...matchOf(teamId, run.block_id) },
     type: QueryTypes.SELECT,
   });
   if (!rows[0]) throw notFound('Finding');
@@ -183,8 +163,7 @@ export async function compareRuns(
   if (head.block_id !== base.block_id) throw new HttpError(400, 'validation', 'Only two runs of the same block can be compared.', [{ path: 'params.baseId', message: 'another block' }]);
   for (const r of [head, base]) if (r.state !== 'succeeded') throw conflict(`Run ${r.id} has not succeeded (it is ${r.state}); only finished checks can be compared.`);
 
-  const waived = await waivedCondition(ctx, teamId, head.block_id);
-  const replacements: Record<string, unknown> = { headId, baseId, limit: query.pageSize, offset: (query.page - 1) * query.pageSize, ...waived.replacements };
+  const replacements: Record<string, unknown> = { headId, baseId, limit: query.pageSize, offset: (query.page - 1) * query.pageSize, ...matchOf(teamId, head.block_id) };
   const [counts] = await ctx.sequelize.query<{ new: number; fixed: number; persisting: number }>(
     `select
        (select cast(count(*) as integer) from findings f where f.run_id = :headId and not ${IN_BASE}) as new,
@@ -195,7 +174,7 @@ export async function compareRuns(
   const selection =
     query.kind === 'new' ? `f.run_id = :headId and not ${IN_BASE}` : query.kind === 'fixed' ? `f.run_id = :baseId and not ${IN_HEAD}` : `f.run_id = :headId and ${IN_BASE}`;
   const rows = await ctx.sequelize.query<FindingRowData>(
-    `select ${FINDING_COLUMNS}, ${waived.sql} as waived from findings f where ${selection} order by f.severity_rank, f.id limit :limit offset :offset`,
+    `select ${FINDING_COLUMNS} from findings f ${waiverJoin} where ${selection} order by f.severity_rank, f.id limit :limit offset :offset`,
     { replacements, type: QueryTypes.SELECT },
   );
   return {

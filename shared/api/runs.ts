@@ -6,6 +6,7 @@ import { z } from 'zod';
 import { severitySchema } from '../deck';
 import { checkSummarySchema, findingSchema } from '../findings';
 import { paged, pageQuerySchema } from './common';
+import { findingWaiverSchema } from './waivers';
 
 export const RUN_STATES = ['queued', 'running', 'succeeded', 'failed', 'cancelled'] as const;
 export const runStateSchema = z.enum(RUN_STATES);
@@ -176,7 +177,8 @@ export const runCreatedSchema = z.object({ run: runSchema, upload: uploadResultS
 // ---------------------------------------------------------------- findings
 
 export const FINDING_SORTS = ['severity', 'rule', 'cell', 'location', 'instances'] as const;
-export const FINDING_STATUSES = ['open', 'waived'] as const;
+/** Decided by server/services/waivers-status.ts: `waiver-lapsed` when a waiver matched but expired, was exceeded or its circuit changed. */
+export const FINDING_STATUSES = ['open', 'waived', 'waiver-requested', 'waiver-lapsed'] as const;
 
 export const findingsQuerySchema = pageQuerySchema.extend({
   sort: z.enum(FINDING_SORTS).default('severity'),
@@ -197,8 +199,10 @@ export const findingParamsSchema = z.object({ id: z.string().uuid(), findingId: 
 
 export const storedFindingSchema = findingSchema.extend({
   id: z.number().int(),
-  /** `waived` when an approved, unexpired waiver of the team covers the finding. */
+  /** `waived` when an approved, unexpired waiver of the team covers the finding (server/services/waivers-status.ts). */
   status: z.enum(FINDING_STATUSES),
+  /** The waiver behind a status other than `open`. */
+  waiver: findingWaiverSchema.nullable().optional(),
 });
 export type StoredFinding = z.infer<typeof storedFindingSchema>;
 export const findingPageSchema = paged(storedFindingSchema);

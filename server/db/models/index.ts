@@ -68,6 +68,7 @@ export function initModels(sequelize: Sequelize): void {
   Waiver.belongsTo(Block, { foreignKey: 'blockId', as: 'block' });
   Waiver.belongsTo(User, { foreignKey: 'requestedBy', as: 'requester' });
   Waiver.belongsTo(User, { foreignKey: 'decidedBy', as: 'decider' });
+  Waiver.belongsTo(User, { foreignKey: 'revokedBy', as: 'revoker' });
 
   AuditEvent.belongsTo(User, { foreignKey: 'actorId', as: 'actor' });
   AuditEvent.belongsTo(Team, { foreignKey: 'teamId', as: 'team' });

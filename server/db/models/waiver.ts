@@ -30,6 +30,18 @@ export class Waiver extends Model<InferAttributes<Waiver>, InferCreationAttribut
   declare decidedAt: Date | null;
   declare expiresAt: Date | null;
   declare bound: Record<string, unknown> | null;
+  declare sourceRunId: CreationOptional<string | null>;
+  declare sourceFindingId: CreationOptional<number | null>;
+  declare severity: CreationOptional<string | null>;
+  declare message: CreationOptional<string>;
+  /** The finding's devices and nets when the waiver was asked for (the reason shown when a changed circuit lapses it). */
+  declare devices: CreationOptional<string[]>;
+  declare nets: CreationOptional<string[]>;
+  declare measured: CreationOptional<Record<string, unknown> | null>;
+  declare revokedBy: CreationOptional<ForeignKey<User['id']> | null>;
+  declare revokedAt: CreationOptional<Date | null>;
+  declare revokeReason: CreationOptional<string | null>;
+  declare expiryWarnedAt: CreationOptional<Date | null>;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
 
@@ -47,6 +59,16 @@ export class Waiver extends Model<InferAttributes<Waiver>, InferCreationAttribut
         decidedAt: { type: DataTypes.DATE, allowNull: true },
         expiresAt: { type: DataTypes.DATE, allowNull: true },
         bound: { type: DataTypes.JSONB, allowNull: true },
+        sourceRunId: { type: DataTypes.UUID, allowNull: true },
+        sourceFindingId: { type: DataTypes.BIGINT, allowNull: true },
+        severity: { type: DataTypes.TEXT, allowNull: true },
+        message: { type: DataTypes.TEXT, allowNull: false, defaultValue: '' },
+        devices: { type: DataTypes.ARRAY(DataTypes.TEXT), allowNull: false, defaultValue: [] },
+        nets: { type: DataTypes.ARRAY(DataTypes.TEXT), allowNull: false, defaultValue: [] },
+        measured: { type: DataTypes.JSONB, allowNull: true },
+        revokedAt: { type: DataTypes.DATE, allowNull: true },
+        revokeReason: { type: DataTypes.TEXT, allowNull: true },
+        expiryWarnedAt: { type: DataTypes.DATE, allowNull: true },
         createdAt: DataTypes.DATE,
         updatedAt: DataTypes.DATE,
       },
