@@ -87,8 +87,12 @@ describe('findings table', () => {
     await waitFor(() => expect(screen.getByText('No finding matches these filters.')).toBeInTheDocument());
     expect(tableQueries(api).at(-1)!.status).toBe('open');
 
-    await user.selectOptions(within(filters).getByRole('combobox', { name: 'Status' }), '');
     await user.selectOptions(within(filters).getByRole('combobox', { name: 'Cell' }), '');
+    await user.selectOptions(within(filters).getByRole('combobox', { name: 'Status' }), 'waiver-lapsed');
+    await waitFor(() => expect(tableRows()).toHaveLength(1));
+    expect(tableQueries(api).at(-1)).toMatchObject({ rule: ['stage.noise-margin'], status: 'waiver-lapsed' });
+    expect(tableRows()[0]).toHaveTextContent('Waiver lapsed');
+    await user.selectOptions(within(filters).getByRole('combobox', { name: 'Status' }), '');
     await user.selectOptions(within(filters).getByRole('combobox', { name: 'Rule' }), '');
     await user.type(within(filters).getByRole('searchbox', { name: 'Text in message, net or device' }), 'mkeep');
     await waitFor(() => expect(tableRows()).toHaveLength(1), { timeout: 3000 });
@@ -178,6 +182,16 @@ describe('finding detail', () => {
     await waitFor(() => expect(within(detail).getByText('0.08')).toHaveAttribute('data-quantity', 'measured'));
     await router.navigate(`/runs/${RUN_ID}?finding=105`);
     await waitFor(() => expect(within(detail).getByText(/Waived: an approved waiver/)).toBeInTheDocument());
+  });
+
+  it('says whether a waiver is requested or has lapsed, and why', async () => {
+    const { router } = await openRun(`/runs/${RUN_ID}?finding=103`);
+    const detail = screen.getByRole('complementary', { name: 'Selected finding' });
+    await waitFor(() => expect(within(detail).getByText(/a waiver has been requested and awaits a reviewer/)).toBeInTheDocument());
+    await router.navigate(`/runs/${RUN_ID}?finding=104`);
+    await waitFor(() => expect(within(detail).getByText(/the waiver that covered this finding has lapsed/)).toBeInTheDocument());
+    expect(within(detail).getByText('the cell’s devices changed since the waiver was approved')).toBeInTheDocument();
+    expect(within(detail).getByText('Every instance of the cell')).toBeInTheDocument();
   });
 
   it('opens a shared link to a finding not on the page shown, by its id', async () => {

@@ -75,6 +75,8 @@ export const FINDINGS: StoredFinding[] = [
     instances: 64,
     measured: { value: 0.08, unit: 'ratio' },
     limit: { value: 0.1, unit: 'ratio' },
+    status: 'waiver-requested',
+    waiver: { id: 'e1000000-0000-4000-8000-000000000001', state: 'requested', scope: 'finding', lapse: null, reason: null, expiresAt: null },
   }),
   finding(104, {
     ruleId: 'stage.noise-margin',
@@ -88,6 +90,8 @@ export const FINDINGS: StoredFinding[] = [
     instances: 64,
     measured: { value: 0.412, unit: 'V' },
     limit: { value: 0.18, unit: 'V' },
+    status: 'waiver-lapsed',
+    waiver: { id: 'e1000000-0000-4000-8000-000000000002', state: 'approved', scope: 'cell', lapse: 'changed', reason: 'the cell’s devices changed since the waiver was approved', expiresAt: '2026-06-30' },
   }),
   finding(105, {
     ruleId: 'stage.noise-margin',

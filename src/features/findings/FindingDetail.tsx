@@ -2,13 +2,23 @@
 // against which limit, where it is (cell, instances, nets, devices, the netlist line), what
 // usually fixes it, its waiver state, and its picture when the rule measured a curve or a budget.
 
+import type { ReactNode } from 'react';
 import type { RuleCatalogueEntry } from '../../../shared/api/decks';
+import { WAIVER_SCOPE_LABELS } from '../../../shared/api/waivers';
 import type { StoredFinding } from '../../../shared/api/runs';
 import { REVIEW_CAUTION } from '../../../shared/findings';
 import { Button } from '../../components/Button';
 import { ToneBadge, ToneGlyph } from '../../design/severity';
 import { FindingPlot, PLOT_TITLES } from '../plots';
+import { formatDate } from '../../lib/format';
 import { formatQuantity } from './quantity';
+
+const WAIVER_WORDS: Record<StoredFinding['status'], string> = {
+  open: 'Not waived.',
+  waived: 'Waived: an approved waiver of your team covers this finding.',
+  'waiver-requested': 'Not waived yet: a waiver has been requested and awaits a reviewer.',
+  'waiver-lapsed': 'Not waived: the waiver that covered this finding has lapsed.',
+};
 
 function NameList({ label, names }: { label: string; names: string[] }) {
   return (
@@ -37,7 +47,10 @@ export function FindingDetail({
   ruleLoading = false,
   onShowInNetlist,
   headingLevel = 2,
+  children,
 }: {
+  /** Below the waiver state: where waiver requests and decisions are made (the waivers feature's part). */
+  children?: ReactNode;
   finding: StoredFinding;
   rule: RuleCatalogueEntry | undefined;
   ruleLoading?: boolean;
@@ -135,9 +148,27 @@ export function FindingDetail({
           Waiver
         </SubHeading>
         <p className="mt-1 text-ink-700" data-waiver-state={finding.status}>
-          {waived ? 'Waived: an approved waiver of your team covers this finding.' : 'Not waived.'}
+          {WAIVER_WORDS[finding.status]}
         </p>
-        <p className="mt-0.5 text-xs text-ink-500">Waiver requests, justifications and reviewers’ decisions for this finding will be shown here.</p>
+        {finding.waiver && (
+          <dl className="mt-1 grid grid-cols-[auto_1fr] gap-x-3 text-xs text-ink-600">
+            <dt>Covers</dt>
+            <dd>{WAIVER_SCOPE_LABELS[finding.waiver.scope].label}</dd>
+            {finding.waiver.expiresAt && (
+              <>
+                <dt>Expires</dt>
+                <dd>{formatDate(finding.waiver.expiresAt)}</dd>
+              </>
+            )}
+            {finding.waiver.reason && (
+              <>
+                <dt>Why it lapsed</dt>
+                <dd>{finding.waiver.reason}</dd>
+              </>
+            )}
+          </dl>
+        )}
+        {children}
       </section>
 
       <p className="flex items-start gap-1.5 text-xs text-ink-600">

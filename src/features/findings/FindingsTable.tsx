@@ -21,7 +21,7 @@ import type { Severity } from '../../../shared/deck';
 import { Button } from '../../components/Button';
 import { TONE_LABELS, ToneBadge, ToneGlyph } from '../../design/severity';
 import { formatQuantity } from './quantity';
-import { PAGE_SIZES, type FindingSort, type FindingStatus, type FindingsView } from './view-state';
+import { PAGE_SIZES, STATUS_LABELS, type FindingSort, type FindingStatus, type FindingsView } from './view-state';
 
 export type FindingColumnId = 'severity' | 'rule' | 'message' | 'cell' | 'location' | 'instances' | 'measured' | 'limit' | 'nets' | 'devices' | 'corner' | 'status';
 
@@ -66,6 +66,7 @@ function buildColumns(rules: Map<string, RuleCatalogueEntry> | undefined): Colum
         <span className="flex flex-col items-start gap-1">
           <ToneBadge tone={row.original.severity} />
           {row.original.status === 'waived' && <ToneBadge tone="waived" />}
+          {row.original.status !== 'waived' && row.original.status !== 'open' && <span className="text-xs text-ink-600">{STATUS_LABELS[row.original.status]}</span>}
         </span>
       ),
     },
@@ -117,11 +118,7 @@ function buildColumns(rules: Map<string, RuleCatalogueEntry> | undefined): Colum
       header: COLUMN_LABELS.status,
       accessorKey: 'status',
       cell: ({ row }) =>
-        row.original.status === 'waived' ? (
-          <ToneBadge tone="waived" />
-        ) : (
-          <span className="text-xs text-ink-600">Open</span>
-        ),
+        row.original.status === 'waived' ? <ToneBadge tone="waived" /> : <span className="text-xs text-ink-600">{STATUS_LABELS[row.original.status]}</span>,
     },
   ];
   return columns.map((c) => ({ ...c, enableSorting: SORTABLE.has(c.id ?? '') }));
@@ -442,12 +439,15 @@ function FilterBar({ table, view, rules, ruleOptions, cellOptions }: { table: Ta
           {view.cell && !cellOptions.some((c) => c.cell === view.cell) && <option value={view.cell}>{view.cell}</option>}
         </select>
       </label>
-      <label className="w-32 text-xs font-medium text-ink-700">
+      <label className="w-40 text-xs font-medium text-ink-700">
         <span className="mb-1 block">Status</span>
         <select className={select} value={view.status ?? ''} onChange={(e) => table.getColumn('status')?.setFilterValue(e.target.value || undefined)}>
           <option value="">Any</option>
-          <option value="open">Open</option>
-          <option value="waived">Waived</option>
+          {(Object.keys(STATUS_LABELS) as FindingStatus[]).map((st) => (
+            <option key={st} value={st}>
+              {STATUS_LABELS[st]}
+            </option>
+          ))}
         </select>
       </label>
       <label className="min-w-[12rem] flex-1 text-xs font-medium text-ink-700">

@@ -8,6 +8,13 @@ import type { Query } from '../../lib/api';
 export type FindingSort = (typeof FINDING_SORTS)[number];
 export type FindingStatus = (typeof FINDING_STATUSES)[number];
 
+export const STATUS_LABELS: Record<FindingStatus, string> = {
+  open: 'Open',
+  waived: 'Waived',
+  'waiver-requested': 'Waiver requested',
+  'waiver-lapsed': 'Waiver lapsed',
+};
+
 export const PAGE_SIZES = [25, 50, 100, 200] as const;
 export const DEFAULT_PAGE_SIZE = 50;
 
@@ -44,7 +51,7 @@ export function readView(params: URLSearchParams): FindingsView {
       .split(',')
       .filter((s): s is Severity => severitySchema.safeParse(s).success),
     cell: params.get('cell') || null,
-    status: params.get('status') === 'open' || params.get('status') === 'waived' ? (params.get('status') as FindingStatus) : null,
+    status: (FINDING_STATUSES as readonly string[]).includes(params.get('status') ?? '') ? (params.get('status') as FindingStatus) : null,
     q: params.get('q') ?? '',
   };
 }
