@@ -16,7 +16,7 @@
 // `others` with both ends on that net and value 0, so findings can still point at it.
 
 import type { DeviceMapEntry } from '../shared/deck';
-import { globToRegExp } from '../shared/deck';
+import { globMatcher, globToRegExp } from '../shared/deck';
 import type {
   ElementStatement,
   FileAst,
@@ -1096,7 +1096,7 @@ class Elaborator {
       scale: this.scale,
       diagnostics: [],
     };
-    design.sourcedRails = sourcedRails(design, this.cells.get(TOP_LEVEL_CELL));
+    design.sourcedRails = sourcedRails(design, this.cells.get(TOP_LEVEL_CELL), globMatcher(this.options.supplies.ground));
     design.diagnostics = this.allDiagnostics();
     return design;
   }
@@ -1258,12 +1258,12 @@ function mergeTies(cell: Cell, ties: [number, number][]): void {
 }
 
 /**
- * Nets held at a DC level by a voltage source against ground (node 0, or `gnd`,
- * which simulators also take as ground): positive → power, 0 V → ground.
- * Sources count in the top-level cell, and in any cell on `.global` nets.
- * A source with a transient function drives a signal, not a rail.
+ * Nets held at a DC level by a voltage source against ground: node 0, `gnd` (which
+ * simulators also take as ground), or a net the deck names as ground. Positive →
+ * power, 0 V → ground. Sources count in the top-level cell, and in any cell on
+ * `.global` nets. A source with a transient function drives a signal, not a rail.
  */
-function sourcedRails(design: Design, top: Cell | undefined): Map<string, { rail: RailKind; volts: number }> {
+function sourcedRails(design: Design, top: Cell | undefined, isGroundName: (name: string) => boolean): Map<string, { rail: RailKind; volts: number }> {
   const rails = new Map<string, { rail: RailKind; volts: number }>();
   const sources: { pos: string; neg: string; dc: number }[] = [];
   for (const cell of design.cells.values()) {
@@ -1280,20 +1280,34 @@ function sourcedRails(design: Design, top: Cell | undefined): Map<string, { rail
   ]);
   rails.set('0', { rail: 'ground', volts: 0 });
   // Propagate levels through chains of sources (vss held at 0 by one source, vdd at 1.8 above vss by another).
-  for (let changed = true, rounds = 0; changed && rounds < 50; rounds++) {
-    changed = false;
-    for (const s of sources) {
-      const p = level.get(s.pos);
-      const n = level.get(s.neg);
-      if (n !== undefined && p === undefined) {
-        level.set(s.pos, n + s.dc);
-        changed = true;
-      } else if (p !== undefined && n === undefined) {
-        level.set(s.neg, p - s.dc);
-        changed = true;
+  const propagate = () => {
+    for (let changed = true, rounds = 0; changed && rounds < 50; rounds++) {
+      changed = false;
+      for (const s of sources) {
+        const p = level.get(s.pos);
+        const n = level.get(s.neg);
+        if (n !== undefined && p === undefined) {
+          level.set(s.pos, n + s.dc);
+          changed = true;
+        } else if (p !== undefined && n === undefined) {
+          level.set(s.neg, p - s.dc);
+          changed = true;
+        }
+      }
+    }
+  };
+  propagate();
+  // Then a net the deck names as ground, not tied to node 0 by any source, is a reference of its own (`Vdd vdd vss 1.8`).
+  let added = false;
+  for (const s of sources) {
+    for (const name of [s.neg, s.pos]) {
+      if (!level.has(name) && isGroundName(name)) {
+        level.set(name, 0);
+        added = true;
       }
     }
   }
+  if (added) propagate();
   for (const [net, volts] of level) {
     if (net === '0') continue;
     if (net === 'gnd' && !sources.some((s) => s.pos === 'gnd' || s.neg === 'gnd')) continue;

@@ -208,3 +208,148 @@ export function generateHierarchicalNetlist(): string {
   out.push('Xtop clk a0 a1 a2 hw_macro', '.end', '');
   return out.join('\n');
 }
+
+// ---------------------------------------------------------------------------
+// Measurement. Each case runs in a child process of its own, so that its peak
+// resident memory (getrusage maxRSS) is its own; the parent only generates text.
+
+interface CaseResult {
+  case: string;
+  /** Milliseconds per phase, measured inside the child around the work only. */
+  phases: Record<string, number>;
+  totalMs: number;
+  peakRssMb: number;
+  facts: Record<string, number | string>;
+}
+
+type CaseName = 'baseline' | 'read' | 'read-check';
+
+async function childMain(kind: CaseName, file: string): Promise<void> {
+  const { readFileSync } = await import('node:fs');
+  // Modules load before the clock starts: the figures are the work, not the start-up.
+  const { readDesign, flattenedDeviceCount } = await import('../../grammar/index');
+  const { checkDesign } = await import('../../rules/engine');
+  const { defaultDeck } = await import('../../rules/default-deck');
+  const deck = defaultDeck();
+  const phases: Record<string, number> = {};
+  const facts: Record<string, number | string> = {};
+  const start = performance.now();
+  let t = start;
+  const lap = (name: string) => {
+    const now = performance.now();
+    phases[name] = now - t;
+    t = now;
+  };
+  const text = readFileSync(file, 'utf8');
+  if (kind === 'baseline') {
+    const lines = text.split(/\r\n|\n|\r/);
+    lap('read and split lines');
+    facts.lines = lines.length;
+  } else {
+    const design = readDesign(new Map([['bench.sp', text]]), { defaultScale: deck.scale, deviceMap: deck.deviceMap, supplies: deck.supplies });
+    lap('read, parse and elaborate');
+    facts.cells = design.cells.size;
+    facts.flattenedDevices = flattenedDeviceCount(design);
+    facts.diagnostics = design.diagnostics.length;
+    let distinct = 0;
+    for (const c of design.cells.values()) distinct += c.mosfets.length + c.others.length;
+    facts.distinctDevices = distinct;
+    if (kind === 'read-check') {
+      t = performance.now();
+      const result = checkDesign(design, deck);
+      lap('checkDesign (built-in deck)');
+      facts.findings = result.findings.length;
+      facts.rules = Object.values(deck.rules).filter((r) => r.enabled).length;
+    }
+  }
+  const out: CaseResult = {
+    case: kind,
+    phases,
+    totalMs: Object.values(phases).reduce((a, b) => a + b, 0),
+    peakRssMb: process.resourceUsage().maxRSS / 1024,
+    facts,
+  };
+  process.stdout.write(JSON.stringify(out) + '\n');
+}
+
+async function runChild(kind: CaseName, file: string): Promise<CaseResult> {
+  const { spawn } = await import('node:child_process');
+  const { fileURLToPath } = await import('node:url');
+  const self = fileURLToPath(import.meta.url);
+  return new Promise((resolvePromise, reject) => {
+    const child = spawn(process.execPath, ['--import', 'tsx', self, '--child', kind, file], { stdio: ['ignore', 'pipe', 'inherit'] });
+    let out = '';
+    child.stdout.on('data', (d: Buffer) => (out += d.toString()));
+    child.on('error', reject);
+    child.on('close', (code) => {
+      const line = out.trim().split('\n').pop() ?? '';
+      if (code !== 0 || !line.startsWith('{')) reject(new Error(`bench child ${kind} exited with ${code}: ${out.slice(0, 500)}`));
+      else resolvePromise(JSON.parse(line) as CaseResult);
+    });
+  });
+}
+
+function median(xs: number[]): number {
+  const s = [...xs].sort((a, b) => a - b);
+  return s[Math.floor(s.length / 2)];
+}
+
+const fmt = (n: number) => n.toLocaleString('en', { maximumFractionDigits: 0 });
+
+export async function run(): Promise<void> {
+  const { mkdtempSync, writeFileSync, rmSync } = await import('node:fs');
+  const { tmpdir } = await import('node:os');
+  const { join } = await import('node:path');
+  const dir = mkdtempSync(join(tmpdir(), 'keepwell-bench-'));
+  const line = (label: string, value: string) => console.log(`  ${label.padEnd(40)} ${value}`);
+  const verdict = (ok: boolean) => (ok ? 'ok' : 'OVER TARGET');
+  try {
+    const flatFile = join(dir, 'flat.sp');
+    const flatText = generateFlatNetlist(1_000_000);
+    writeFileSync(flatFile, flatText);
+    const hierFile = join(dir, 'hier.sp');
+    writeFileSync(hierFile, generateHierarchicalNetlist());
+
+    const repeats = 3;
+    const baselines: CaseResult[] = [];
+    const reads: CaseResult[] = [];
+    // Interleaved, so that a busy machine slows baseline and engine alike.
+    for (let i = 0; i < repeats; i++) {
+      baselines.push(await runChild('baseline', flatFile));
+      reads.push(await runChild('read', flatFile));
+    }
+    const full = await runChild('read-check', flatFile);
+    const hier = await runChild('read-check', hierFile);
+
+    const base = median(baselines.map((r) => r.totalMs));
+    const parse = median(reads.map((r) => r.totalMs));
+    const parseRss = Math.max(...reads.map((r) => r.peakRssMb));
+    const check = full.phases['checkDesign (built-in deck)'];
+    const f = reads[0].facts;
+    console.log(`netlist engine (each case in its own process; baseline and read: median of ${repeats})`);
+    console.log(' flat: one million transistors in one subcircuit');
+    line('file', `${(flatText.length / 1e6).toFixed(1)} MB, ${fmt(baselines[0].facts.lines as number)} lines, ${fmt(f.distinctDevices as number)} devices, ${f.diagnostics} diagnostics`);
+    line('baseline: read file, split lines', `${fmt(base)} ms`);
+    line('read + parse + elaborate', `${fmt(parse)} ms = ${(parse / base).toFixed(1)}x baseline (aim < 4x): ${verdict(parse < 4 * base)}`);
+    line('  throughput', `${fmt((f.distinctDevices as number) / (parse / 1000))} devices/s, ${(flatText.length / 1e6 / (parse / 1000)).toFixed(1)} MB/s`);
+    line('  peak RSS', `${fmt(parseRss)} MB`);
+    line(`checkDesign, built-in deck (${full.facts.rules} rules)`, `${fmt(check)} ms = ${(check / base).toFixed(1)}x baseline, ${full.facts.findings} findings`);
+    line('total (one run)', `${fmt(full.totalMs)} ms = ${(full.totalMs / base).toFixed(1)}x baseline (target < 10x, aim 5x): ${verdict(full.totalMs < 10 * base)}`);
+    line('peak RSS, full check', `${fmt(full.peakRssMb)} MB (target < 2048 MB): ${verdict(full.peakRssMb < 2048)}`);
+    const h = hier.facts;
+    console.log(' hierarchical: register-file macro');
+    line('cells / distinct devices', `${h.cells} / ${fmt(h.distinctDevices as number)}`);
+    line('flattened devices', `${fmt(h.flattenedDevices as number)}, ${h.diagnostics} diagnostics, ${h.findings} findings`);
+    line('read + parse + elaborate', `${fmt(hier.phases['read, parse and elaborate'])} ms`);
+    line('checkDesign, built-in deck', `${fmt(hier.phases['checkDesign (built-in deck)'])} ms`);
+    line('total', `${fmt(hier.totalMs)} ms (target < 10000 ms): ${verdict(hier.totalMs < 10_000)}`);
+    line('peak RSS', `${fmt(hier.peakRssMb)} MB (target < 1024 MB): ${verdict(hier.peakRssMb < 1024)}`);
+  } finally {
+    rmSync(dir, { recursive: true, force: true });
+  }
+}
+
+const argv = process.argv;
+if (argv[2] === '--child') {
+  await childMain(argv[3] as CaseName, argv[4]);
+}

@@ -116,6 +116,28 @@ describe('statements and lines', () => {
   });
 });
 
+describe('pieces', () => {
+  it('reads a file the same whatever size the pieces it is tokenized in', () => {
+    // Chunking is an implementation detail: it must never change what a netlist means.
+    const text = lines(
+      '* chunked',
+      '.subckt inv a y',
+      'M1 y a 0 0 nch w=1u',
+      '+ l=1u $ continued',
+      '* comment',
+      'M2 y a vdd vdd pch w=2u l=1u',
+      '.ends',
+      'X1 p q inv',
+      'X2 q r',
+      '+ inv',
+      'R1 r 0 {2*1k}',
+    );
+    const shape = (chunkSize?: number) => JSON.stringify(parseNetlist('c.sp', text, { chunkSize }), (k, v) => (v instanceof Map || k === 'lookup' ? undefined : v));
+    const whole = shape();
+    for (const size of [1, 7, 16, 40]) expect(shape(size)).toBe(whole);
+  });
+});
+
 describe('elements', () => {
   it('reads M, X, R, C, V, I and D elements with their values', () => {
     const d = read(
@@ -276,6 +298,13 @@ describe('subcircuits, parameters, models, options', () => {
     expect(d.sourcedRails.get('vio')).toEqual({ rail: 'power', volts: 1.8 });
     // A clock source is a signal, not a rail.
     expect(d.sourcedRails.has('clk')).toBe(false);
+  });
+
+  it('takes a net the deck names as ground as the reference of a source', () => {
+    // Built-in deck ground patterns include vss*: vssa is a reference even with no source to node 0.
+    const d = read(lines('* analog rail', 'Va vdda vssa 3.3', 'R1 vdda vssa 1k'));
+    expect(d.sourcedRails.get('vdda')).toEqual({ rail: 'power', volts: 3.3 });
+    expect(d.sourcedRails.get('vssa')).toEqual({ rail: 'ground', volts: 0 });
   });
 });
 
