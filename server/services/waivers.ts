@@ -438,7 +438,7 @@ export async function sweepExpiringWaivers(ctx: Ctx, now: Date = waiverClock.now
     const claimed = await ctx.sequelize.query<{ id: string; team_id: string }>(
       `update waivers set expiry_warned_at = :now
        where state = 'approved' and expires_at is not null and expiry_warned_at is null
-         and expires_at > :now and expires_at <= :now + make_interval(days => :days)
+         and expires_at > :now and expires_at <= cast(:now as timestamptz) + make_interval(days => :days)
        returning id, team_id`,
       { replacements: { now, days: EXPIRY_WARNING_DAYS }, type: QueryTypes.SELECT, transaction },
     );

@@ -10,7 +10,7 @@
 import crypto from 'node:crypto';
 import type { Permission } from '../../shared/roles';
 import type { Team } from '../../server/db/models';
-import { FindingRow, MailMessage, Run } from '../../server/db/models';
+import { FindingRow, MailMessage, Run, Waiver } from '../../server/db/models';
 import { createUser, uniqueEmail, type CreatedUser, type TestEnv } from './helpers';
 import { defaultDeck } from '../../rules/default-deck';
 import { INVERTER_NETLIST, makeDeck, makeNetlist, type DeckFixture } from './decks-fixtures';
@@ -137,7 +137,48 @@ export const ROUTES: RouteCase[] = [
     permission: 'design.read',
   },
   { method: 'get', path: async (fx) => `/api/uploads/${(await makeNetlist(fx.team.id, fx.blockId, { 'top.sp': INVERTER_NETLIST })).id}`, permission: 'design.read' },
+
+  // Waivers: each attempt gets a fresh finding or waiver, so changing routes can succeed once per role.
+  { method: 'get', path: '/api/waivers', permission: 'design.read' },
+  { method: 'get', path: async (fx) => `/api/waivers/${(await makeWaiver(fx, 'approved')).id}`, permission: 'design.read' },
+  {
+    method: 'get',
+    path: async (fx) => {
+      const { run, finding } = await makeRunWithFinding(fx);
+      return `/api/waivers/for-finding?runId=${run.id}&findingId=${finding.id}`;
+    },
+    permission: 'design.read',
+  },
+  { method: 'post', path: '/api/waivers', permission: 'waiver.request', body: waiverRequestBody },
+  { method: 'post', path: '/api/waivers/direct', permission: 'waiver.decide', body: waiverRequestBody },
+  { method: 'post', path: async (fx) => `/api/waivers/${(await makeWaiver(fx, 'requested')).id}/approve`, permission: 'waiver.decide', body: () => ({ comment: 'route table' }) },
+  { method: 'post', path: async (fx) => `/api/waivers/${(await makeWaiver(fx, 'requested')).id}/reject`, permission: 'waiver.decide', body: () => ({ comment: 'route table' }) },
+  { method: 'post', path: async (fx) => `/api/waivers/${(await makeWaiver(fx, 'approved')).id}/revoke`, permission: 'waiver.revoke', body: () => ({ reason: 'route table' }) },
 ];
+
+/** A succeeded run with one finding of a fingerprint no other attempt uses. */
+async function makeRunWithFinding(fx: RouteFixture) {
+  const run = await makeFinishedRun(fx);
+  const finding = await FindingRow.create({
+    runId: run.id, ruleId: 'device.implausible-size', severity: 'error', message: 'fixture finding', file: 'top.sp', line: 3, column: 1,
+    cell: 'tinv', nets: [], devices: ['Mp'], instances: 1, measured: null, limit: null, fingerprint: crypto.randomBytes(7).toString('hex'), corner: null, plot: null,
+  });
+  return { run, finding };
+}
+
+async function waiverRequestBody(fx: RouteFixture) {
+  const { run, finding } = await makeRunWithFinding(fx);
+  return { runId: run.id, findingId: finding.id, scope: 'finding', justification: 'asked for by the permission table' };
+}
+
+async function makeWaiver(fx: RouteFixture, state: 'requested' | 'approved'): Promise<Waiver> {
+  const { run, finding } = await makeRunWithFinding(fx);
+  return Waiver.create({
+    teamId: fx.team.id, blockId: fx.blockId, ruleId: finding.ruleId, cell: finding.cell, fingerprint: finding.fingerprint, scope: 'finding',
+    justification: 'made by the permission table', state, requestedBy: fx.member.user.id, decidedBy: null, decisionComment: null,
+    decidedAt: state === 'approved' ? new Date() : null, expiresAt: null, bound: null, sourceRunId: run.id, sourceFindingId: finding.id,
+  });
+}
 
 /** A succeeded run (no findings) of the fixture's block, made through the models. */
 async function makeFinishedRun(fx: RouteFixture): Promise<Run> {
