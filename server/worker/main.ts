@@ -14,7 +14,10 @@ import { createFlowProducer, createWorkerRedis, queuePrefix, RUN_QUEUE, runQueue
 import { loadQueueSettings } from '../queue/config';
 import { processMergeJob, processPartJob, processRunJob, type JobEnv } from './jobs';
 import { reconcile } from './reconciler';
+import { sweepExpiringWaivers } from '../services/waivers';
 import { CheckThreads } from './threads';
+
+const WAIVER_SWEEP_MS = 15 * 60 * 1000;
 
 const log = (line: string) => process.stdout.write(`worker: ${line}\n`);
 
@@ -75,12 +78,21 @@ async function main(argv: string[]): Promise<number> {
     return reconciling;
   };
   const timer = setInterval(reconcileNow, settings.reconcileSeconds * 1000);
+  // Waivers expiring within a week: one warning each, however many workers sweep (services/waivers.ts).
+  const sweepWaivers = () =>
+    sweepExpiringWaivers(ctx).then(
+      (n) => n && log(`warned of ${n} expiring waiver${n === 1 ? '' : 's'}`),
+      (err) => log(`waiver sweep: ${err instanceof Error ? err.message : String(err)}`),
+    );
+  const waiverTimer = setInterval(sweepWaivers, WAIVER_SWEEP_MS);
+  waiverTimer.unref();
 
   let stopping = false;
   const stop = async (code: number) => {
     if (stopping) return;
     stopping = true;
     clearInterval(timer);
+    clearInterval(waiverTimer);
     log('stopping');
     // Give running checks a moment; a job cut off here is taken over by another worker when its lock runs out.
     await Promise.race([worker.close(), new Promise((r) => setTimeout(r, 10_000))]);
@@ -100,6 +112,7 @@ async function main(argv: string[]): Promise<number> {
   void worker.run();
   log(`ready: ${settings.concurrency} at once as ${settings.workerName}, queue ${queuePrefix(config)}:${RUN_QUEUE}`);
   await reconcileNow();
+  void sweepWaivers();
 
   if (untilIdle) {
     for (;;) {
