@@ -1,6 +1,6 @@
 import { z } from 'zod';
 import { defineRule } from '../types';
-import { elmoreDelay, passChainsOf, type PassChain } from '../recognition/pass';
+import { elmoreDelay, passChainsOf, stepDevice, type PassChain } from '../recognition/pass';
 import { chainFigure } from '../recognition/chain-report';
 import { formatSi } from '../units';
 
@@ -40,7 +40,7 @@ export default defineRule({
     const corner = ctx.deck.corners[0];
     for (const c of maximal(passChainsOf(ctx), p.maxSeries)) {
       const cell = ctx.cell;
-      const devices = c.steps.flatMap((st) => st.edge.stage.elements.map((e) => (e.kind === 'mos' ? cell.mosfets[e.index].name : cell.others[e.index].name)));
+      const devices = c.steps.flatMap((st) => st.edge.elements.map((e) => stepDevice(cell, st, e).name));
       // Anchor at the first device past the limit, counted from the driver: where a restoring stage has to go.
       let count = 0;
       let anchorStep = c.steps[c.steps.length - 1];
@@ -59,7 +59,7 @@ export default defineRule({
         message:
           `${c.length} pass devices in series from ${c.sourceKind === 'stage' ? 'the driver of' : c.sourceKind === 'port' ? 'port' : 'instance pin'} ${cell.nets[c.source]} to ${end} (${path}), ` +
           `more than ${p.maxSeries}; Elmore delay of the chain about ${formatSi(tau, 's')} at corner ${corner.name}.`,
-        loc: anchorStep.edge.stage.anchor,
+        loc: stepDevice(cell, anchorStep, anchorStep.edge.elements[0]).loc,
         nets: [cell.nets[c.source], ...c.steps.map((st) => cell.nets[st.to])],
         devices: [...new Set(devices)],
         measured: { value: c.length, unit: 'count' },

@@ -1,6 +1,6 @@
 import { z } from 'zod';
 import { defineRule } from '../types';
-import { passChainsOf, passedLevels } from '../recognition/pass';
+import { passChainsOf, passedLevels, stepDevice } from '../recognition/pass';
 import { chainFigure, receiverLevels } from '../recognition/chain-report';
 import { formatSi } from '../units';
 
@@ -42,15 +42,15 @@ export default defineRule({
       const w = worst as { slack: number; high: boolean; level: number; need: number; device: string; corner: string; stage: number } | null;
       if (!w || w.slack >= 0) continue;
       const corner = ctx.deck.corners.find((k) => k.name === w.corner)!;
-      const devices = c.steps.flatMap((st) => st.edge.stage.elements.map((e) => (e.kind === 'mos' ? cell.mosfets[e.index].name : cell.others[e.index].name)));
-      const step = c.steps.find((st) => st.edge.stage.elements.some((e) => e.kind === 'mos' && cell.mosfets[e.index].name === w.device)) ?? c.steps[0];
+      const devices = c.steps.flatMap((st) => st.edge.elements.map((e) => stepDevice(cell, st, e).name));
+      const step = c.steps.find((st) => st.edge.elements.some((e) => stepDevice(cell, st, e).name === w.device)) ?? c.steps[0];
       const kind = w.high ? 'n-channel' : 'p-channel';
       report({
         message:
           `${kind} pass device ${w.device} delivers ${w.high ? 'a high' : 'a low'} of only ${volts(w.level)} to ${cell.nets[c.receiver]} at corner ${w.corner} ` +
           `(${w.high ? 'VDD − VT' : '|VT|'} with the body effect), ${w.high ? 'below' : 'above'} the receiving stage's ${w.high ? 'VIH' : 'VIL'} ` +
           `${p.margin ? `${w.high ? 'plus' : 'minus'} ${volts(p.margin)} ` : ''}(${volts(w.need)}).`,
-        loc: step.edge.stage.anchor,
+        loc: stepDevice(cell, step, step.edge.elements.find((e) => stepDevice(cell, step, e).name === w.device) ?? step.edge.elements[0]).loc,
         nets: [cell.nets[c.source], ...c.steps.map((st) => cell.nets[st.to])],
         devices: [...new Set(devices)],
         measured: { value: w.level, unit: 'V' },

@@ -15,7 +15,6 @@
 // full low only if some branch is n-channel: an n-only device "degrades high", a
 // p-only one "degrades low", a transmission gate neither.
 
-import type { Network } from '../electrical/network';
 import type { Stage } from '../stages';
 import type { CellContext } from '../types';
 import { cellIndex, designMemo, portsAreLocal, RESTORING_KINDS } from './context';
@@ -24,14 +23,15 @@ import type { Corner } from '../../shared/deck';
 import { thresholdVoltage } from '../electrical/mos';
 import { ModelResolver } from '../electrical/parameters';
 import { netCapacitance } from './budgets';
-import { networkElements } from '../electrical/network';
 
 export interface PassEdge {
   stage: Stage;
   /** The two nets it joins. */
   a: number;
   b: number;
-  /** Devices in series along its longest branch. */
+  /** `stage.elements` indices of the devices in parallel between a and b (one device, or the two halves of a transmission gate). */
+  elements: number[];
+  /** Devices in series (1: edges are single parallel groups). */
   depth: number;
   degradesHigh: boolean;
   degradesLow: boolean;
@@ -59,19 +59,7 @@ export interface PassChain {
   degradesLow: boolean;
 }
 
-function depthOf(n: Network): number {
-  if (n.kind === 'leaf') return 1;
-  if (n.kind === 'series') return n.children.reduce((s, c) => s + depthOf(c), 0);
-  return Math.max(...n.children.map(depthOf));
-}
-
-function degrades(n: Network, polarityOf: (e: number) => string, stops: 'n' | 'p'): boolean {
-  if (n.kind === 'leaf') return polarityOf(n.element) === stops;
-  if (n.kind === 'series') return n.children.some((c) => degrades(c, polarityOf, stops));
-  return n.children.every((c) => degrades(c, polarityOf, stops));
-}
-
-/** Pass edges of a context, per net. */
+/** Pass edges of a context, per net: each pass stage split into its groups of parallel devices (a series string gives one edge per device, with its stack nodes as nets of the graph). */
 export function passEdgesOf(ctx: CellContext): { edges: PassEdge[]; at: Map<number, PassEdge[]> } {
   return ctx.memo('recognition.pass-edges', () => {
     const index = cellIndex(ctx);
@@ -79,25 +67,40 @@ export function passEdgesOf(ctx: CellContext): { edges: PassEdge[]; at: Map<numb
     const edges: PassEdge[] = [];
     const at = new Map<number, PassEdge[]>();
     for (const s of index.stages.stages) {
-      if (s.kind !== 'pass' || s.terminals.length !== 2 || !s.channel) continue;
-      const polarityOf = (e: number) => (s.elements[e].kind === 'mos' ? cell.mosfets[s.elements[e].index].polarity : 'r');
-      const edge: PassEdge = {
-        stage: s,
-        a: s.terminals[0],
-        b: s.terminals[1],
-        depth: depthOf(s.channel),
-        degradesHigh: degrades(s.channel, polarityOf, 'n'),
-        degradesLow: degrades(s.channel, polarityOf, 'p'),
-      };
-      edges.push(edge);
-      for (const x of [edge.a, edge.b]) {
-        const list = at.get(x);
-        if (list) list.push(edge);
-        else at.set(x, [edge]);
-      }
+      if (s.kind !== 'pass') continue;
+      const groups = new Map<string, PassEdge>();
+      s.elements.forEach((el, e) => {
+        if (el.kind !== 'mos') return;
+        const m = cell.mosfets[el.index];
+        const x = index.alias[m.drain];
+        const y = index.alias[m.source];
+        if (x === y) return;
+        const [a, b] = x < y ? [x, y] : [y, x];
+        const key = `${a},${b}`;
+        let g = groups.get(key);
+        if (!g) {
+          g = { stage: s, a, b, elements: [], depth: 1, degradesHigh: true, degradesLow: true };
+          groups.set(key, g);
+          edges.push(g);
+          for (const net of [a, b]) {
+            const list = at.get(net);
+            if (list) list.push(g);
+            else at.set(net, [g]);
+          }
+        }
+        g.elements.push(e);
+        // A p-channel device passes a full high, an n-channel device a full low.
+        if (m.polarity === 'p') g.degradesHigh = false;
+        else g.degradesLow = false;
+      });
     }
     return { edges, at };
   });
+}
+
+/** The device of a chain step (a `stage.elements` index of the step's stage). */
+export function stepDevice(cell: CellContext['cell'], step: ChainStep, element: number): CellContext['cell']['mosfets'][number] {
+  return cell.mosfets[step.edge.stage.elements[element].index];
 }
 
 /** Past this many nets a pass component is not searched from each receiver (a bus, not a chain). */
@@ -128,10 +131,15 @@ export function passChainsOf(ctx: CellContext): PassChain[] {
       }
       return out;
     };
+    const outputPorts = new Set<number>();
+    ctx.cell.ports.forEach((p, i) => {
+      if (ctx.cell.portDirections[i] === 'output') outputPorts.add(index.alias[p]);
+    });
     const chains: PassChain[] = [];
     for (const receiver of at.keys()) {
       const receivers = receiversOf(receiver);
-      if (!receivers.length && !(local && index.isPort[receiver])) continue;
+      // An output port of a root cell ends a chain too (it leaves the design unrestored); other ports drive chains.
+      if (!receivers.length && !(local && outputPorts.has(receiver))) continue;
       // Shortest paths (in series devices) from the receiver back to every driver reachable through pass edges.
       const dist = new Map<number, number>([[receiver, 0]]);
       const via = new Map<number, ChainStep>();
@@ -216,7 +224,7 @@ export function passedLevels(ctx: CellContext, chain: PassChain, corner: Corner)
   let lowDevice: string | null = null;
   for (const st of chain.steps) {
     const s = st.edge.stage;
-    for (const e of networkElements(s.channel!)) {
+    for (const e of st.edge.elements) {
       const el = s.elements[e];
       if (el.kind !== 'mos') continue;
       const m = cell.mosfets[el.index];
@@ -251,24 +259,21 @@ export function elmoreDelay(ctx: CellContext, chain: PassChain, corner: Corner):
   const cell = ctx.cell;
   const r = resolver(ctx, corner);
   const vdd = corner.vdd;
-  const req = (n: Network, s: Stage): number => {
-    if (n.kind === 'leaf') {
-      const el = s.elements[n.element];
-      if (el.kind !== 'mos') return cell.others[el.index].kind === 'res' ? (cell.others[el.index] as { value: number }).value : 0;
-      const m = cell.mosfets[el.index];
-      const model = r.get(m.polarity, m.model).model;
-      const vgt = Math.max(vdd - model.vt0, 1e-3);
-      const vmin = model.kind === 'velocity-saturated' ? Math.min(vgt, model.vdsat) : vgt;
-      const idsat = ((model.kPrime * m.w * m.m) / m.l) * (vgt * vmin - (vmin * vmin) / 2) * (1 + model.lambda * vdd);
-      return ((0.75 * vdd) / idsat) * (1 - (7 / 9) * model.lambda * vdd);
-    }
-    if (n.kind === 'series') return n.children.reduce((sum, c) => sum + req(c, s), 0);
-    return 1 / n.children.reduce((sum, c) => sum + 1 / Math.max(req(c, s), 1e-30), 0);
+  const req = (s: Stage, e: number): number => {
+    const el = s.elements[e];
+    if (el.kind !== 'mos') return 0;
+    const m = cell.mosfets[el.index];
+    const model = r.get(m.polarity, m.model).model;
+    const vgt = Math.max(vdd - model.vt0, 1e-3);
+    const vmin = model.kind === 'velocity-saturated' ? Math.min(vgt, model.vdsat) : vgt;
+    const idsat = ((model.kPrime * m.w * m.m) / m.l) * (vgt * vmin - (vmin * vmin) / 2) * (1 + model.lambda * vdd);
+    return ((0.75 * vdd) / idsat) * (1 - (7 / 9) * model.lambda * vdd);
   };
   let resistance = 0;
   let tau = 0;
   for (const st of chain.steps) {
-    resistance += req(st.edge.stage.channel!, st.edge.stage);
+    // Parallel devices of one step (a transmission gate) combine as conductances.
+    resistance += 1 / st.edge.elements.reduce((sum, e) => sum + 1 / Math.max(req(st.edge.stage, e), 1e-30), 0);
     tau += resistance * netCapacitance(ctx, st.to, corner);
   }
   return tau;
