@@ -17,6 +17,7 @@ import { blockRoutes } from './routes/blocks';
 import { deckRoutes, ruleCatalogueRoutes } from './routes/decks';
 import { healthRoutes } from './routes/health';
 import { runRoutes } from './routes/runs';
+import { tokenRoutes } from './routes/tokens';
 import { uploadRoutes } from './routes/uploads';
 import { waiverRoutes } from './routes/waivers';
 
@@ -32,5 +33,6 @@ export function apiRouter(ctx: AppContext): Router {
   api.use('/uploads', uploadRoutes(ctx));
   api.use('/runs', runRoutes(ctx));
   api.use('/waivers', waiverRoutes(ctx));
+  api.use('/tokens', tokenRoutes(ctx));
   return api;
 }

@@ -154,6 +154,10 @@ export const ROUTES: RouteCase[] = [
   { method: 'post', path: async (fx) => `/api/waivers/${(await makeWaiver(fx, 'requested')).id}/approve`, permission: 'waiver.decide', body: () => ({ comment: 'route table' }) },
   { method: 'post', path: async (fx) => `/api/waivers/${(await makeWaiver(fx, 'requested')).id}/reject`, permission: 'waiver.decide', body: () => ({ comment: 'route table' }) },
   { method: 'post', path: async (fx) => `/api/waivers/${(await makeWaiver(fx, 'approved')).id}/revoke`, permission: 'waiver.revoke', body: () => ({ reason: 'route table' }) },
+
+  // Personal API tokens. POST /api/tokens/:id/revoke takes the caller's own token: tried by role in tokens.test.ts.
+  { method: 'get', path: '/api/tokens', permission: 'token.manage' },
+  { method: 'post', path: '/api/tokens', permission: 'token.manage', body: () => ({ name: unique('token'), scope: 'read' }) },
 ];
 
 /** A succeeded run with one finding of a fingerprint no other attempt uses. */

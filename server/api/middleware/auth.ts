@@ -8,7 +8,8 @@ import type { Session } from 'lucia';
 import { can, type Permission, type Role } from '../../../shared/roles';
 import type { AppContext } from '../../context';
 import type { ApiTokenScope } from '../../db/models/tokens';
-import { forbidden, unauthenticated } from '../../errors';
+import { forbidden, HttpError, unauthenticated } from '../../errors';
+import { identifyToken } from '../../services/tokens-api';
 
 export interface AuthUser {
   id: string;
@@ -40,10 +41,10 @@ export function authenticate(ctx: AppContext): RequestHandler {
   return async (req, res, next) => {
     const authorization = req.headers.authorization;
     if (authorization?.toLowerCase().startsWith('bearer ')) {
-      // Personal API tokens (table api_tokens, hashed with services/tokens.ts) are
-      // verified here: look the token up, set `req.auth = { via: 'token', … }` and
-      // stamp last_used_at. A bearer request never falls back to the cookie. Until
-      // that lands, a bearer token authenticates nobody.
+      // A personal API token (services/tokens-api.ts). A bearer request never falls back to the cookie.
+      const identity = await identifyToken(ctx, authorization.slice('bearer '.length).trim());
+      if (!identity) return next(new HttpError(401, 'invalid-token', 'The API token is not valid: it may have been revoked, or its owner disabled.'));
+      req.auth = { via: 'token', user: identity.user, tokenId: identity.tokenId, scope: identity.scope };
       return next();
     }
 

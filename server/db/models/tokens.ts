@@ -73,6 +73,8 @@ export class ApiToken extends Model<InferAttributes<ApiToken>, InferCreationAttr
   declare name: string;
   declare tokenHash: string;
   declare scope: ApiTokenScope;
+  /** The first characters of the token, shown in its owner's list. */
+  declare tokenHint: CreationOptional<string>;
   declare createdAt: CreationOptional<Date>;
   declare lastUsedAt: Date | null;
   declare revokedAt: Date | null;
@@ -86,6 +88,7 @@ export class ApiToken extends Model<InferAttributes<ApiToken>, InferCreationAttr
         name: { type: DataTypes.TEXT, allowNull: false },
         tokenHash: { type: DataTypes.TEXT, allowNull: false, unique: true },
         scope: { type: DataTypes.TEXT, allowNull: false },
+        tokenHint: { type: DataTypes.TEXT, allowNull: false, defaultValue: '' },
         createdAt: DataTypes.DATE,
         lastUsedAt: { type: DataTypes.DATE, allowNull: true },
         revokedAt: { type: DataTypes.DATE, allowNull: true },
