@@ -1,6 +1,6 @@
 import { z } from 'zod';
 import { defineRule } from '../types';
-import { dynamicBudgets, netCapacitance, thresholdOf } from '../recognition/budgets';
+import { dynamicBudgets, hierarchicalCapacitance, netCapacitance, thresholdOf } from '../recognition/budgets';
 import { cellIndex } from '../recognition/context';
 import { dynamicNodesOf, type DynamicNode } from '../recognition/dynamic';
 import { allowedSwing, budgetPlot, f, netOf, nodeDevices, nodeLabel, thresholdText, v, worstBy, type BudgetBar } from '../recognition/report';
@@ -77,13 +77,17 @@ export default defineRule({
       const index = cellIndex(d.ctx);
       const cell = d.ctx.cell;
       for (const g of d.inputs) {
-        const on = aggressorsOn(d, g);
+        // The node itself only falls during evaluation, which pulls its inputs down: not an aggressor for a low input.
+        const on = aggressorsOn(d, g).filter((x) => x.net !== index.alias[d.node]);
         if (!on.length) continue;
         const device = d.stage.elements.map((el) => (el.kind === 'mos' ? cell.mosfets[el.index] : null)).find((m) => m && index.alias[m.gate] === g);
         if (!device) continue;
         const cc = on.reduce((sum, x) => sum + x.capacitance, 0);
         const per = ctx.deck.corners.map((corner) => {
-          const total = Math.max(netCapacitance(d.ctx, g, corner), cc);
+          // An input that is a net of the engine's cell may reach devices outside the node's region (its driver): count them.
+          const host = d.host.net(g);
+          const own = host === undefined ? netCapacitance(d.ctx, g, corner) : hierarchicalCapacitance(d.host.ctx, host, corner);
+          const total = Math.max(own, cc);
           const glitch = (corner.vdd * cc) / total;
           const allowed = Math.max(thresholdOf(d.ctx, device.polarity, device.model, corner) - p.margin, 0);
           return { corner, glitch, allowed, total };

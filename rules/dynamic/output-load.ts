@@ -3,10 +3,10 @@ import { defineRule } from '../types';
 import { dynamicNodesOf, type LoadKind } from '../recognition/dynamic';
 import { budgetPlot, nodeDevices, nodeLabel } from '../recognition/report';
 
-const BAD: Partial<Record<LoadKind, string>> = {
-  'pass-gate': 'pass-device gate',
-  diffusion: 'device channel leading to an undriven net (sharing the node’s charge)',
-  'other-gate': 'gate of a device in no recognised stage',
+const BAD: Partial<Record<LoadKind, [string, string]>> = {
+  'pass-gate': ['pass-device gate', 'pass-device gates'],
+  diffusion: ['device channel leading to an undriven net (sharing the node’s charge)', 'device channels leading to undriven nets (sharing the node’s charge)'],
+  'other-gate': ['gate of a device in no recognised stage', 'gates of devices in no recognised stage'],
 };
 
 export default defineRule({
@@ -37,7 +37,7 @@ export default defineRule({
         const of = bad.filter((l) => l.kind === kind);
         if (!of.length) continue;
         const names = of.slice(0, 6).map((l) => l.device).join(', ') + (of.length > 6 ? ` and ${of.length - 6} more` : '');
-        parts.push(`it reaches ${of.length} ${BAD[kind]}${of.length > 1 ? 's' : ''}: ${names}`);
+        parts.push(`it reaches ${of.length} ${BAD[kind]![of.length > 1 ? 1 : 0]}: ${names}`);
       }
       if (tooMany) parts.push(`it drives ${receivers.size} stages, more than ${p.maxReceivers}`);
       report({

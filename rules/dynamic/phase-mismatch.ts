@@ -4,6 +4,7 @@ import { elementName, levelIn, dynamicNodesOf } from '../recognition/dynamic';
 import { describeTiming, timingOf, UNKNOWN } from '../recognition/timing';
 import { netOf, nodeDevices, nodeLabel } from '../recognition/report';
 import { cellIndex } from '../recognition/context';
+import type { Network } from '../electrical/network';
 
 const HALF = ['low', 'high'] as const;
 
@@ -60,16 +61,35 @@ export default defineRule({
           problems.push(`footer ${name} on ${netOf(d, g)} is off in both halves of ${pre.phase}: the node can never evaluate`);
         }
       }
-      if (d.footers.length === 0 && d.prechargeHalf !== null && pre) {
+      if (d.prechargeHalf !== null && pre) {
+        // The evaluation network must be off throughout precharge: every path needs a device known off in that half
+        // (a footer on the precharge clock, or an input low then).
         const h = d.prechargeHalf;
-        const evalOn = nEval ? 1 : 0;
-        const risky = d.inputs.filter((g) => levelIn(timing[g], pre.phase, h) !== 1 - evalOn);
-        if (risky.length) {
-          for (const g of risky) nets.add(netOf(d, g));
+        const offLevel = nEval ? 0 : 1;
+        const risky = new Set<number>();
+        const mayConduct = (n: Network): number[] | null => {
+          if (n.kind === 'leaf') {
+            const el = d.stage.elements[n.element];
+            if (el.kind !== 'mos') return [];
+            const g = index.alias[cell.mosfets[el.index].gate];
+            const r = index.railOf(g);
+            if (r) return (r === 'power') === nEval ? [] : null;
+            return levelIn(timing[g], pre.phase, h) === offLevel ? null : [g];
+          }
+          const parts = n.children.map(mayConduct);
+          if (n.kind === 'series') return parts.some((x) => x === null) ? null : (parts as number[][]).flat();
+          const open = parts.filter((x): x is number[] => x !== null);
+          return open.length ? open.flat() : null;
+        };
+        for (const g of mayConduct(d.evaluation) ?? []) risky.add(g);
+        if (risky.size) {
+          const names = [...risky].map((g) => netOf(d, g));
+          for (const n of names) nets.add(n);
+          const shown = names.length > 8 ? `${names.slice(0, 8).join(', ')} and ${names.length - 8} more` : names.join(', ');
+          const what = d.footers.length ? 'a branch of its evaluation network has no footer and' : 'the stage is footless and its evaluation network';
           problems.push(
-            `the stage is footless and input${risky.length > 1 ? 's' : ''} ${risky.map((g) => netOf(d, g)).join(', ')} ` +
-              `${risky.length > 1 ? 'are' : 'is'} not known to be ${nEval ? 'low' : 'high'} while ${pre.phase} is ${HALF[h]} (the precharge half): ` +
-              `an input ${nEval ? 'high' : 'low'} during precharge fights the precharge device through the evaluation network`,
+            `${what} can conduct while ${pre.phase} is ${HALF[h]} (the precharge half): ` +
+              `no device on the path through ${shown} is known to be off then, and an input ${nEval ? 'high' : 'low'} during precharge fights the precharge device`,
           );
         }
       }

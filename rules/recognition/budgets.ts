@@ -23,7 +23,7 @@ import type { Network } from '../electrical/network';
 import { ModelResolver } from '../electrical/parameters';
 import { stageAnalysesOf, type StageAnalysis } from '../stages';
 import type { CellContext } from '../types';
-import { cellIndex, designMemo } from './context';
+import { cellIndex, childContext, designMemo } from './context';
 import type { DynamicNode } from './dynamic';
 
 export interface Threshold {
@@ -206,6 +206,23 @@ export function netCapacitance(ctx: CellContext, net: number, corner: Corner): n
   for (const i of index.others.of(x)) {
     const o = cell.others[i];
     if (o.kind === 'cap' && index.alias[o.a] !== index.alias[o.b]) c += o.value;
+  }
+  return c;
+}
+
+/** Capacitance of a net including what it reaches inside child instances, at any depth (memoised per child port). */
+export function hierarchicalCapacitance(ctx: CellContext, net: number, corner: Corner): number {
+  const index = cellIndex(ctx);
+  const x = index.alias[net];
+  let c = netCapacitance(ctx, x, corner);
+  const insts = index.pinInstances.of(x);
+  const ports = index.pinPorts.of(x);
+  for (let k = 0; k < insts.length; k++) {
+    const inst = ctx.cell.instances[insts[k]];
+    const child = childContext(ctx.design, ctx.deck, inst.cell, inst.pins.map((p) => ctx.rails[p]));
+    if (!child) continue;
+    const port = ports[k];
+    c += child.memo(`recognition.port-capacitance.${port}.${corner.name}`, () => hierarchicalCapacitance(child, child.cell.ports[port], corner));
   }
   return c;
 }

@@ -90,6 +90,8 @@ export interface DynamicNode {
   loads: Load[];
   /** Instance paths when the node was gathered across the hierarchy. */
   paths: string[];
+  /** The engine's context the node is judged in, and the net of that context a net of `ctx` stands for (itself, for a local node). */
+  host: { ctx: CellContext; net(net: number): number | undefined };
 }
 
 export function elementName(cell: Cell, stage: Stage, element: number): string {
@@ -124,7 +126,7 @@ export function dynamicNodesOf(ctx: CellContext): DynamicNode[] {
           viaRegion.add(net);
           for (const d of dynamicNodesOf(region.ctx)) {
             if (d.node !== region.node) continue;
-            out.push({ ...d, name: cell.nets[net], paths: region.paths });
+            out.push({ ...d, name: cell.nets[net], paths: region.paths, host: { ctx, net: (x) => region.hostNet.get(x) } });
           }
         }
       }
@@ -342,6 +344,7 @@ function recognise(ctx: CellContext, index: CellIndex, s: Stage, info: DynamicIn
     receivers,
     loads,
     paths: [],
+    host: { ctx, net: (x) => x },
   };
 }
 

@@ -119,7 +119,8 @@ export function passChainsOf(ctx: CellContext): PassChain[] {
       // Restoring stages drive a chain; a dynamic node does not (it floats while it evaluates), so a chain runs through it.
       const d = index.stages.driverOf.get(net);
       if (d !== undefined && RESTORING_KINDS.has(stages[d].kind)) return 'stage';
-      if (index.isPort[net]) return 'port';
+      // A port drives the chain from outside, unless a stage here drives it (a dynamic node brought out as a port).
+      if (index.isPort[net] && d === undefined) return 'port';
       if (index.pinInstances.count(net)) return 'instance';
       return null;
     };

@@ -30,6 +30,8 @@ export interface Region {
   /** Synthetic context holding the devices of the region; its cell's first port is the net. */
   ctx: CellContext;
   node: number;
+  /** Net of the engine's cell that each synthetic net stands for, when it is one (not a net inside a child). */
+  hostNet: Map<number, number>;
   /** Instance paths that contributed devices (for messages). */
   paths: string[];
 }
@@ -283,5 +285,7 @@ function build(ctx: CellContext, start: number): Region | null {
   const regionCtx = makeContext(ctx.design, ctx.deck, synthetic, rails, { instances: ctx.instances, signals, root: true });
   primeClockHint(regionCtx);
   regionCtx.memo(REGION_DRIVEN_KEY, () => driven);
-  return { ctx: regionCtx, node: startId, paths: [...paths].sort() };
+  const hostNet = new Map<number, number>();
+  for (const [local, id] of rootNets) hostNet.set(id, local);
+  return { ctx: regionCtx, node: startId, hostNet, paths: [...paths].sort() };
 }

@@ -171,7 +171,16 @@ export function classifyStage(
       for (let mask = 0; mask < 1 << k && complementary; mask++) {
         complementary = conductsFor(pullUp, logic, mask) !== conductsFor(pullDown, logic, mask);
       }
-    } else stage.notes.push(`complementary by structure only (${k} inputs, truth table not enumerated)`);
+    } else {
+      // Without the truth table, at least the necessary condition: a complementary gate's pull-up is the dual of its
+      // pull-down over the same inputs, so every input gates devices in both networks (a precharge device does not).
+      const inUp = new Set<number>();
+      const inDown = new Set<number>();
+      for (const e of up) inUp.add(logic.gate[e]);
+      for (const e of down) inDown.add(logic.gate[e]);
+      for (const x of stage.inputs) if (!inUp.has(x) || !inDown.has(x)) complementary = false;
+      if (complementary) stage.notes.push(`complementary by structure only (${k} inputs, truth table not enumerated)`);
+    }
     if (complementary) {
       stage.kind = k === 1 ? 'inverter' : 'complementary';
       return;
