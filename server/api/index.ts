@@ -16,6 +16,7 @@ import { authRoutes } from './routes/auth';
 import { blockRoutes } from './routes/blocks';
 import { deckRoutes, ruleCatalogueRoutes } from './routes/decks';
 import { healthRoutes } from './routes/health';
+import { runReportRoutes } from './routes/reports';
 import { runRoutes } from './routes/runs';
 import { tokenRoutes } from './routes/tokens';
 import { uploadRoutes } from './routes/uploads';
@@ -32,6 +33,7 @@ export function apiRouter(ctx: AppContext): Router {
   api.use('/rules', ruleCatalogueRoutes());
   api.use('/uploads', uploadRoutes(ctx));
   api.use('/runs', runRoutes(ctx));
+  api.use('/runs', runReportRoutes(ctx));
   api.use('/waivers', waiverRoutes(ctx));
   api.use('/tokens', tokenRoutes(ctx));
   return api;

@@ -1,4 +1,4 @@
-// keepwell check FILE… [--deck deck.json] [--top CELL] [--scale F] [--format text|json] [--output FILE]
+// keepwell check FILE… [--deck deck.json] [--top CELL] [--scale F] [--format text|json|sarif] [--output FILE]
 //
 // The whole check, offline: read the netlists (and the files they include, only
 // from the directories of the given files), elaborate them, run the deck's rules,
@@ -7,10 +7,12 @@
 
 import { readFileSync, statSync, writeFileSync } from 'node:fs';
 import { dirname, isAbsolute, relative, resolve, sep } from 'node:path';
+import { pathToFileURL } from 'node:url';
 import { parseArgs } from 'node:util';
 import type { Design, Diagnostic } from '../../grammar/design';
 import { includeReferences, parseSpiceNumber, readDesign } from '../../grammar/index';
 import { checkDesign } from '../../rules/engine';
+import { buildSarif } from '../../rules/sarif';
 import { defaultDeck } from '../../rules/default-deck';
 import { validateDeck } from '../../rules/validate-deck';
 import { formatSi } from '../../rules/units';
@@ -36,6 +38,7 @@ exit status: 0 no error-severity finding, 1 error findings, 2 unreadable input o
 export interface FormatContext {
   design: Design;
   diagnostics: Diagnostic[];
+  deck: Deck;
 }
 
 export type ReportFormatter = (report: CheckReport, context: FormatContext) => string;
@@ -44,7 +47,25 @@ export type ReportFormatter = (report: CheckReport, context: FormatContext) => s
 export const reportFormats: Record<string, ReportFormatter> = {
   text: formatText,
   json: (report) => JSON.stringify(report, null, 2) + '\n',
+  sarif: formatSarif,
 };
+
+/** SARIF 2.1.0 (rules/sarif.ts): paths relative to the working directory, which is the log's root. */
+export function formatSarif(report: CheckReport, context: FormatContext): string {
+  const root = pathToFileURL(workingDirectory()).href.replace(/\/?$/, '/');
+  const log = buildSarif({
+    toolVersion: report.tool.version,
+    deck: report.deck,
+    findings: report.findings,
+    ruleIds: Object.entries(context.deck.rules)
+      .filter(([, setting]) => setting.enabled)
+      .map(([id]) => id),
+    rootUri: root,
+    rootDescription: 'The folder keepwell check was run in.',
+    executionSuccessful: report.summary.parseErrors === 0,
+  });
+  return JSON.stringify(log, null, 2) + '\n';
+}
 
 function usage(): string {
   return USAGE.replace('%FORMATS%', Object.keys(reportFormats).join('|'));
@@ -287,7 +308,7 @@ export async function run(args: string[]): Promise<number> {
   };
   // The report shape is a contract shared with the server and the client.
   checkReportSchema.parse(report);
-  const text = formatter(report, { design, diagnostics: design.diagnostics });
+  const text = formatter(report, { design, diagnostics: design.diagnostics, deck });
   if (values.output) {
     try {
       writeFileSync(resolve(workingDirectory(), values.output), text);

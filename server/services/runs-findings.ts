@@ -12,7 +12,7 @@ import { findingStatus, statusSql, waiverClock, waiverColumns, waiverJoin, waive
 
 type Ctx = Pick<AppContext, 'sequelize'>;
 
-interface FindingRowData extends WaiverColumns {
+export interface FindingRowData extends WaiverColumns {
   id: number;
   rule_id: string;
   severity: Severity;
@@ -34,10 +34,10 @@ interface FindingRowData extends WaiverColumns {
 /** A run's findings joined to the waivers that decide their status (server/services/waivers-status.ts). */
 const matchOf = (teamId: string, blockId: string) => waiverReplacements({ teamId, blockId, now: waiverClock.now() });
 
-const FINDING_COLUMNS = `f.id, f.rule_id, f.severity, f.message, f.file, f.line, f."column", f.cell, f.nets, f.devices, f.instances,
+export const FINDING_COLUMNS = `f.id, f.rule_id, f.severity, f.message, f.file, f.line, f."column", f.cell, f.nets, f.devices, f.instances,
   f.measured, f."limit", f.fingerprint, f.corner, f.plot, ${waiverColumns}`;
 
-function findingView(r: FindingRowData): StoredFinding {
+export function findingView(r: FindingRowData): StoredFinding {
   return {
     id: r.id,
     ruleId: r.rule_id,

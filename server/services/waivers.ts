@@ -411,6 +411,18 @@ export async function getWaiver(ctx: Pick<AppContext, 'sequelize'>, teamId: stri
   };
 }
 
+/** Waivers of the team by id, in the order given (unknown ids left out). */
+export async function waiversByIds(ctx: Pick<AppContext, 'sequelize'>, teamId: string, ids: readonly string[]): Promise<WaiverView[]> {
+  if (ids.length === 0) return [];
+  const rows = await ctx.sequelize.query<WaiverRow>(`${WAIVER_SELECT} where w.team_id = :teamId and w.id in (:ids)`, {
+    replacements: { teamId, ids },
+    type: QueryTypes.SELECT,
+  });
+  const now = waiverClock.now();
+  const byId = new Map(rows.map((r) => [r.id, waiverView(r, now)]));
+  return ids.flatMap((id) => byId.get(id) ?? []);
+}
+
 /** Every waiver or request that concerns one finding: on its fingerprint, or on its rule in its cell. */
 export async function waiversOfFinding(ctx: Pick<AppContext, 'sequelize'>, teamId: string, runId: string, findingId: number) {
   const f = await findingOfTeam(ctx, teamId, runId, findingId);

@@ -74,3 +74,17 @@ export async function sizeOnlyTeamDeck(team: Team) {
 export async function heronBlock(team: Team, name = 'heron-column') {
   return Block.create({ teamId: team.id, name, createdBy: null });
 }
+
+/** The column plus hcol_sense, a sense stage nobody instantiates (so it is checked as a root), its pull-down 5 mm wide. */
+export function heronWithSense(options: HeronOptions = {}): string {
+  return heronColumn(options) + ['.subckt hcol_sense a y vdd vss', 'mp1 y a vdd vdd pch w=1u l=0.25u', 'mn1 y a vss vss nch w=5000u l=0.25u', '.ends', ''].join('\n');
+}
+
+/** 1-based line of the first line of `text` that starts with `prefix` after the line starting `.subckt <cell>`. */
+export function lineOf(text: string, cell: string, prefix: string): number {
+  const lines = text.split('\n');
+  const start = lines.findIndex((l) => l.startsWith(`.subckt ${cell} `));
+  const at = lines.findIndex((l, i) => i > start && l.startsWith(prefix));
+  if (start < 0 || at < 0) throw new Error(`no ${prefix} in ${cell}`);
+  return at + 1;
+}
