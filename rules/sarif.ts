@@ -9,7 +9,7 @@ import { REVIEW_CAUTION, type Finding } from '../shared/findings';
 import { ruleRegistry } from './registry';
 import type { RuleMeta } from './types';
 
-/** The `$id` of the OASIS TC's schema (tests/fixtures/sarif-schema-2.1.0.json). */
+/** Where the OASIS SARIF TC keeps the 2.1.0 schema (a copy is tests/fixtures/sarif-schema-2.1.0.json). */
 export const SARIF_SCHEMA_URI = 'https://raw.githubusercontent.com/oasis-tcs/sarif-spec/master/Schemata/sarif-schema-2.1.0.json';
 /** The base every result's relative `artifactLocation.uri` is resolved against. */
 export const SARIF_ROOT_ID = 'NETLISTROOT';
