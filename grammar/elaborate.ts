@@ -590,6 +590,7 @@ class Elaborator {
   /** Header parameters whose value can change what the body elaborates to. */
   private relevantParams(def: CellDef): string[] {
     if (def.relevant) return def.relevant;
+    if (def.headerParams.length === 0) return (def.relevant = []);
     const used = new Set<string>();
     const addRefs = (v: Value | undefined) => {
       if (v !== undefined && typeof v !== 'number') for (const r of v.compiled.refs) used.add(r);

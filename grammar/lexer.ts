@@ -13,6 +13,7 @@
 //   DollarModel   CDL `$[model]`
 //   LParen/RParen the groups of `.model … (…)` and source functions `pulse(…)`
 //   Directive     CDL comment directives `*.PININFO`, `*.SCALE`, `*.GLOBAL`
+//   FieldsEnd     a Fields run that ends its statement, line break included
 //   Newline       end of a statement, with any blank and `*` comment lines after it
 //   Unclosed      `{`, `'` or `"` that never closes on its line; Stray: a lone `}`
 //
@@ -168,49 +169,76 @@ export function unescapeField(word: string): string {
   return word.replace(/\\(.)/gs, '$1');
 }
 
-function matchFields(text: string, offset: number): CustomPatternMatcherReturn | null {
-  const n = text.length;
-  let i = offset;
-  let c = text.charCodeAt(i);
-  if (ENDS_FIELD[c] || c === DOLLAR) return null;
-  if (c === 42 /* * */ && atLineStart(text, offset)) return null;
-  const store = fieldStore;
-  const first = store.count;
-  let lastEnd = i;
-  for (;;) {
-    const start = i;
-    let escaped = false;
-    let equals = -1;
-    while (i < n) {
-      c = text.charCodeAt(i);
-      if (c === BACKSLASH && i + 1 < n && text.charCodeAt(i + 1) !== LF && text.charCodeAt(i + 1) !== CR) {
-        escaped = true;
-        i += 2;
-        continue;
-      }
-      if (ENDS_FIELD[c]) break;
-      if (c === 61 && equals < 0) equals = i - start;
-      i++;
-    }
-    store.push(start, i, equals, escaped);
-    lastEnd = i;
+/**
+ * One scan of a run of fields, shared by the FieldsEnd and Fields patterns that are
+ * tried in turn at the same offset: where the run ends, and whether the statement
+ * ends with it (a line break that no `+` continues, or the end of the text).
+ */
+class FieldScanner {
+  private from = -1;
+  first = 0;
+  lastEnd = 0;
+  /** End of the line break (and the blank and comment lines after it) when the run ends the statement; -1 otherwise. */
+  statementEnd = -1;
+
+  reset(): void {
+    this.from = -1;
+  }
+
+  /** False when no run of fields starts at `offset`. */
+  scan(text: string, offset: number): boolean {
+    if (offset === this.from) return true;
+    const n = text.length;
+    let i = offset;
+    let c = text.charCodeAt(i);
+    if (ENDS_FIELD[c] || c === DOLLAR) return false;
+    if (c === 42 /* * */ && atLineStart(text, offset)) return false;
+    const store = fieldStore;
+    const first = store.count;
+    let lastEnd = i;
+    let statementEnd = -1;
     for (;;) {
-      while (i < n && INLINE_SPACE[text.charCodeAt(i)]) i++;
-      c = text.charCodeAt(i);
-      if (c === LF || c === CR) {
-        breaks.scan(text, i);
-        if (breaks.continues) {
-          i = breaks.end;
+      const start = i;
+      let escaped = false;
+      let equals = -1;
+      while (i < n) {
+        c = text.charCodeAt(i);
+        if (c === BACKSLASH && i + 1 < n && text.charCodeAt(i + 1) !== LF && text.charCodeAt(i + 1) !== CR) {
+          escaped = true;
+          i += 2;
           continue;
         }
+        if (ENDS_FIELD[c]) break;
+        if (c === 61 && equals < 0) equals = i - start;
+        i++;
       }
-      break;
+      store.push(start, i, equals, escaped);
+      lastEnd = i;
+      for (;;) {
+        while (i < n && INLINE_SPACE[text.charCodeAt(i)]) i++;
+        c = text.charCodeAt(i);
+        if (c === LF || c === CR) {
+          breaks.scan(text, i);
+          if (breaks.continues) {
+            i = breaks.end;
+            continue;
+          }
+          statementEnd = breaks.end;
+        } else if (i >= n) statementEnd = n;
+        break;
+      }
+      if (statementEnd >= 0 || ENDS_FIELD[c] || c === DOLLAR) break;
     }
-    if (i >= n || ENDS_FIELD[c] || c === DOLLAR) break;
+    store.runEnds[first] = store.count;
+    this.from = offset;
+    this.first = first;
+    this.lastEnd = lastEnd;
+    this.statementEnd = statementEnd;
+    return true;
   }
-  store.runEnds[first] = store.count;
-  return match(text, offset, lastEnd, first);
 }
+
+const runs = new FieldScanner();
 
 function fieldStartHints(): number[] {
   const hints: number[] = [];
@@ -286,11 +314,23 @@ export const InlineComment = createToken({ name: 'InlineComment', pattern: /[$;]
 export const Brace = createToken({ name: 'Brace', pattern: /\{[^{}\r\n]*\}/ });
 export const Quoted = createToken({ name: 'Quoted', pattern: /'[^'\r\n]*'|"[^"\r\n]*"/ });
 export const Unclosed = createToken({ name: 'Unclosed', pattern: /[{'"][^\r\n]*/ });
+/** A run of fields that ends its statement, line break included: most element lines are this one token. */
+export const FieldsEnd = createToken({
+  name: 'FieldsEnd',
+  line_breaks: true,
+  start_chars_hint: fieldStartHints(),
+  pattern: {
+    exec: (text: string, offset: number) =>
+      runs.scan(text, offset) && runs.statementEnd >= 0 ? match(text, offset, runs.statementEnd, runs.first) : null,
+  },
+});
 export const Fields = createToken({
   name: 'Fields',
   line_breaks: true,
   start_chars_hint: fieldStartHints(),
-  pattern: { exec: matchFields },
+  pattern: {
+    exec: (text: string, offset: number) => (runs.scan(text, offset) && runs.statementEnd < 0 ? match(text, offset, runs.lastEnd, runs.first) : null),
+  },
 });
 
 /** Order matters: the first pattern that matches wins. */
@@ -309,6 +349,7 @@ export const netlistTokens: TokenType[] = [
   Brace,
   Quoted,
   Unclosed,
+  FieldsEnd,
   Fields,
 ];
 
@@ -322,6 +363,7 @@ export const netlistLexer = new Lexer(netlistTokens, {
 /** Tokenize one piece of text (a whole file or a chunk from `statementChunks`). */
 export function tokenize(text: string) {
   breaks.reset();
+  runs.reset();
   fieldStore.reset();
   return netlistLexer.tokenize(text);
 }

@@ -7,7 +7,9 @@
 
 import type { SourceLoc } from './design';
 import { LocationCursor } from './source';
-import { foldAscii, hashRange, RangeIndex } from './text-hash';
+import { foldAscii, hashRange, RangeIndex, rangeEquals } from './text-hash';
+
+const RECENT_SLOTS = 4096;
 
 export class NameTable {
   /** Each name as first written; index = id. */
@@ -15,6 +17,13 @@ export class NameTable {
   /** Offset (in the body's file) of each name's first mention. */
   readonly firstOffsets: number[] = [];
   private readonly lookup = new RangeIndex((e) => this.names[e], true, 64);
+  /**
+   * A small direct-mapped cache of recently seen names (id + 1 by hash), in front of the
+   * big table: a net is usually mentioned again a few lines after its first mention, and
+   * the rails on every line, so most lookups stay in a few cache-resident kilobytes.
+   */
+  private readonly recent = new Int32Array(RECENT_SLOTS);
+  private readonly recentHash = new Int32Array(RECENT_SLOTS);
   private map: NameIndex | null = null;
   private locs: SourceLoc[] | null = null;
 
@@ -25,9 +34,14 @@ export class NameTable {
   /** Id of the name written at `text[start, end)`, first mentioned at `offset` of its file. */
   idAt(text: string, start: number, end: number, offset: number): number {
     const h = hashRange(text, start, end, true);
-    const known = this.lookup.find(text, start, end, h);
-    if (known >= 0) return known;
-    return this.append(text.substring(start, end), h, offset);
+    const slot = h & (RECENT_SLOTS - 1);
+    const cached = this.recent[slot] - 1;
+    if (cached >= 0 && this.recentHash[slot] === (h | 0) && rangeEquals(text, start, end, this.names[cached], true)) return cached;
+    let id = this.lookup.find(text, start, end, h);
+    if (id < 0) id = this.append(text.substring(start, end), h, offset);
+    this.recent[slot] = id + 1;
+    this.recentHash[slot] = h | 0;
+    return id;
   }
 
   /** Id of a name given as a string (escaped names, callers outside the parser). */

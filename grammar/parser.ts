@@ -1,9 +1,11 @@
 // The netlist parser: a Chevrotain grammar over logical lines with embedded actions
 // that decode each line into a typed statement (grammar/ast.ts). No CST is built.
 //
-//   netlist := line*
-//   line    := Directive? item* Newline
+//   netlist := ( Directive? item* ( Newline | FieldsEnd ) )*
 //   item    := Fields | Brace | Quoted | DollarModel | LParen | RParen | Unclosed | Stray
+//
+// (FieldsEnd is a run of fields that ends its line; most element lines are that one
+// token. The line is inlined into `netlist` so that a line costs no rule call.)
 //
 // What a line means depends on its first field (an element letter or a dot
 // command) and on the position of the fields after it, as in every SPICE reader;
@@ -26,6 +28,7 @@ import {
   DollarModel,
   Directive,
   Fields,
+  FieldsEnd,
   LParen,
   Newline,
   netlistTokens,
@@ -97,7 +100,9 @@ export interface ParseOptions {
 
 class NetlistParser extends EmbeddedActionsParser {
   sink: FileBuilder | null = null;
+  // Cached alternatives: building them per call would allocate on every line.
   private itemAlts?: { ALT: () => void }[];
+  private endAlts?: { ALT: () => void }[];
 
   constructor() {
     super(netlistTokens, { recoveryEnabled: true });
@@ -105,28 +110,30 @@ class NetlistParser extends EmbeddedActionsParser {
   }
 
   netlist = this.RULE('netlist', () => {
-    this.MANY(() => this.SUBRULE(this.line));
-  });
-
-  line = this.RULE('line', () => {
-    const directive = this.OPTION(() => this.CONSUME(Directive));
-    this.MANY(() =>
-      this.OR(
-        // Cached alternatives: building them per call would allocate on every line.
-        (this.itemAlts ??= [
-          { ALT: () => { const t = this.CONSUME(Fields); this.ACTION(() => this.sink!.fields(t)); } },
-          { ALT: () => { const t = this.CONSUME(Brace); this.ACTION(() => this.sink!.item(Kind.Brace, t)); } },
-          { ALT: () => { const t = this.CONSUME(Quoted); this.ACTION(() => this.sink!.item(Kind.Quoted, t)); } },
-          { ALT: () => { const t = this.CONSUME(DollarModel); this.ACTION(() => this.sink!.item(Kind.DollarModel, t)); } },
-          { ALT: () => { const t = this.CONSUME(LParen); this.ACTION(() => this.sink!.item(Kind.Open, t)); } },
-          { ALT: () => { const t = this.CONSUME(RParen); this.ACTION(() => this.sink!.item(Kind.Close, t)); } },
-          { ALT: () => { const t = this.CONSUME(Unclosed); this.ACTION(() => this.sink!.item(Kind.Unclosed, t)); } },
-          { ALT: () => { const t = this.CONSUME(Stray); this.ACTION(() => this.sink!.item(Kind.Stray, t)); } },
+    this.MANY(() => {
+      const directive = this.OPTION(() => this.CONSUME(Directive));
+      this.MANY2(() =>
+        this.OR(
+          (this.itemAlts ??= [
+            { ALT: () => { const t = this.CONSUME(Fields); this.ACTION(() => this.sink!.fields(t)); } },
+            { ALT: () => { const t = this.CONSUME(Brace); this.ACTION(() => this.sink!.item(Kind.Brace, t)); } },
+            { ALT: () => { const t = this.CONSUME(Quoted); this.ACTION(() => this.sink!.item(Kind.Quoted, t)); } },
+            { ALT: () => { const t = this.CONSUME(DollarModel); this.ACTION(() => this.sink!.item(Kind.DollarModel, t)); } },
+            { ALT: () => { const t = this.CONSUME(LParen); this.ACTION(() => this.sink!.item(Kind.Open, t)); } },
+            { ALT: () => { const t = this.CONSUME(RParen); this.ACTION(() => this.sink!.item(Kind.Close, t)); } },
+            { ALT: () => { const t = this.CONSUME(Unclosed); this.ACTION(() => this.sink!.item(Kind.Unclosed, t)); } },
+            { ALT: () => { const t = this.CONSUME(Stray); this.ACTION(() => this.sink!.item(Kind.Stray, t)); } },
+          ]),
+        ),
+      );
+      this.OR2(
+        (this.endAlts ??= [
+          { ALT: () => { this.CONSUME(Newline); } },
+          { ALT: () => { const t = this.CONSUME(FieldsEnd); this.ACTION(() => this.sink!.fields(t)); } },
         ]),
-      ),
-    );
-    this.CONSUME(Newline);
-    this.ACTION(() => this.sink!.endLine(directive));
+      );
+      this.ACTION(() => this.sink!.endLine(directive));
+    });
   });
 }
 
@@ -1038,7 +1045,7 @@ function parseText(path: string, text: string, numbers: NumberCache, from: numbe
       for (const e of lexed.errors) builder.report('error', 'syntax', builder.base + e.offset, e.message);
       const tokens = lexed.tokens;
       const last = tokens[tokens.length - 1];
-      if (!last || last.tokenType !== Newline) {
+      if (!last || (last.tokenType !== Newline && last.tokenType !== FieldsEnd)) {
         tokens.push(createTokenInstance(Newline, '', piece.length, piece.length, NaN, NaN, NaN, NaN));
       }
       parser.input = tokens;

@@ -218,6 +218,8 @@ interface CaseResult {
   /** Milliseconds per phase, measured inside the child around the work only. */
   phases: Record<string, number>;
   totalMs: number;
+  /** CPU time of the process over the same span (all threads, GC helpers included): steadier than wall time on a busy machine. */
+  cpuMs: number;
   peakRssMb: number;
   facts: Record<string, number | string>;
 }
@@ -233,6 +235,7 @@ async function childMain(kind: CaseName, file: string): Promise<void> {
   const deck = defaultDeck();
   const phases: Record<string, number> = {};
   const facts: Record<string, number | string> = {};
+  const cpu = process.cpuUsage();
   const start = performance.now();
   let t = start;
   const lap = (name: string) => {
@@ -266,6 +269,7 @@ async function childMain(kind: CaseName, file: string): Promise<void> {
     case: kind,
     phases,
     totalMs: Object.values(phases).reduce((a, b) => a + b, 0),
+    cpuMs: ((u) => (u.user + u.system) / 1000)(process.cpuUsage(cpu)),
     peakRssMb: process.resourceUsage().maxRSS / 1024,
     facts,
   };
@@ -323,6 +327,8 @@ export async function run(): Promise<void> {
 
     const base = median(baselines.map((r) => r.totalMs));
     const parse = median(reads.map((r) => r.totalMs));
+    const baseCpu = median(baselines.map((r) => r.cpuMs));
+    const parseCpu = median(reads.map((r) => r.cpuMs));
     const parseRss = Math.max(...reads.map((r) => r.peakRssMb));
     const check = full.phases['checkDesign (built-in deck)'];
     const f = reads[0].facts;
@@ -331,6 +337,7 @@ export async function run(): Promise<void> {
     line('file', `${(flatText.length / 1e6).toFixed(1)} MB, ${fmt(baselines[0].facts.lines as number)} lines, ${fmt(f.distinctDevices as number)} devices, ${f.diagnostics} diagnostics`);
     line('baseline: read file, split lines', `${fmt(base)} ms`);
     line('read + parse + elaborate', `${fmt(parse)} ms = ${(parse / base).toFixed(1)}x baseline (aim < 4x): ${verdict(parse < 4 * base)}`);
+    line('  in CPU time', `${fmt(parseCpu)} ms against ${fmt(baseCpu)} ms = ${(parseCpu / baseCpu).toFixed(1)}x`);
     line('  throughput', `${fmt((f.distinctDevices as number) / (parse / 1000))} devices/s, ${(flatText.length / 1e6 / (parse / 1000)).toFixed(1)} MB/s`);
     line('  peak RSS', `${fmt(parseRss)} MB`);
     line(`checkDesign, built-in deck (${full.facts.rules} rules)`, `${fmt(check)} ms = ${(check / base).toFixed(1)}x baseline, ${full.facts.findings} findings`);

@@ -10,7 +10,7 @@ import { join } from 'node:path';
 import Ajv from 'ajv';
 import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
 import { z } from 'zod';
-import { run } from '../../server/cli/check';
+import { reportFormats, run } from '../../server/cli/check';
 import { defaultDeck } from '../../rules/default-deck';
 import { checkReportSchema, REVIEW_CAUTION } from '../../shared/findings';
 
@@ -168,7 +168,7 @@ describe('keepwell check', () => {
     expect(JSON.parse(readFileSync(target, 'utf8')).findings).toHaveLength(1);
     const unknown = await check(file, '--format', 'yaml');
     expect(unknown.code).toBe(2);
-    expect(unknown.err).toContain('unknown format "yaml" (available: text, json)');
+    expect(unknown.err).toContain(`unknown format "yaml" (available: ${Object.keys(reportFormats).join(', ')})`);
   });
 
   it('runs as a command: npm run keepwell -- check', () => {
