@@ -21,6 +21,8 @@ export default defineRule({
   params: z.object({}),
   check(ctx, _p, report) {
     const nodes = dynamicNodesOf(ctx);
+    const byNode = new Map<string, DynamicNode>();
+    for (const d of nodes) if (d.ctx === ctx) byNode.set(String(d.node), d);
     for (const d2 of nodes) {
       if (d2.unknown.length || d2.prechargeHalf === null || !d2.clockTiming) continue;
       const timing = timingOf(d2.ctx).timing;
@@ -33,7 +35,7 @@ export default defineRule({
         if (!t || t.phase !== phase) continue;
         // On when evaluation starts (its level in the precharge half), and not known to stay on through evaluation.
         if (levelIn(t, phase, h) !== on || levelIn(t, phase, e) === on) continue;
-        const driver: DynamicNode | undefined = t.kind === 'dynamic' ? nodes.find((d1) => d1.ctx === d2.ctx && d1.node === g) : undefined;
+        const driver: DynamicNode | undefined = t.kind === 'dynamic' && d2.ctx === ctx ? byNode.get(String(g)) : undefined;
         const what =
           t.kind === 'dynamic'
             ? driver

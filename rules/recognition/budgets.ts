@@ -21,9 +21,9 @@ import {
 } from '../electrical/charge';
 import type { Network } from '../electrical/network';
 import { ModelResolver } from '../electrical/parameters';
-import { stageAnalysesOf, type StageAnalysis } from '../stages';
+import { analyseStage } from '../stages';
 import type { CellContext } from '../types';
-import { cellIndex, childContext, designMemo } from './context';
+import { cellIndex, childContext, designMemo, stageEnvironmentOf } from './context';
 import type { DynamicNode } from './dynamic';
 
 export interface Threshold {
@@ -65,6 +65,8 @@ interface Neighbourhood {
   signature: string;
   /** Stack nodes a secondary precharge device holds at the node's precharge level. */
   precharged: Set<number>;
+  /** Per keeper: the devices and shapes of the keeper and of the evaluation network, all that its ratio depends on. */
+  keeperSignatures: string[];
 }
 
 function neighbourhood(d: DynamicNode): Neighbourhood {
@@ -124,7 +126,16 @@ function neighbourhood(d: DynamicNode): Neighbourhood {
     if ((a.rail === 'power') === (d.style === 'n-evaluate')) precharged.add(alias[a.node]);
   }
   parts.push(`A${[...precharged].map(role).join(',')}`);
-  return { cell: sub, elements, signature: parts.join(';'), precharged };
+  const deviceOf = (n: Network): string =>
+    n.kind === 'leaf'
+      ? (() => {
+          const m = mosfets[elements[n.element].index];
+          return elements[n.element].kind === 'mos' ? `${m.polarity}${m.w},${m.l},${m.m},${m.model.toLowerCase()},${role(m.bulk)}` : 'r';
+        })()
+      : `${n.kind[0]}(${n.children.map(deviceOf).join(' ')})`;
+  const evalSig = deviceOf(d.evaluation);
+  const keeperSignatures = d.keepers.map((k) => `${d.style}|${deviceOf(k.network)}|${evalSig}`);
+  return { cell: sub, elements, signature: parts.join(';'), precharged, keeperSignatures };
 }
 
 /**
@@ -160,31 +171,32 @@ function solve(d: DynamicNode, hood: Neighbourhood): ElectricalBudget[] {
       drop = total > 0 ? (corner.vdd * cDischarged) / total : 0;
     }
     const drive = { ...base, models: ctx.design.models, useNetlistModels: ctx.deck.useNetlistModels };
-    const keepers = d.keepers.map((k) => keeperRatio(drive, k.network, d.evaluation));
+    // The keeper's strength depends only on the keeper and the evaluation devices: memoised on those alone.
+    const keepers = d.keepers.map((k, i) =>
+      designMemo(ctx.design, ctx.deck, `keeper-ratio|${corner.name}|${hood.keeperSignatures[i]}`, () => keeperRatio(drive, k.network, d.evaluation)),
+    );
     const leakage = networkLeakage(base, d.evaluation);
     return { corner: corner.name, vdd: corner.vdd, capacitance, chargeSharing, chargeSharingDrop: drop, keepers, leakage };
   });
 }
 
-/** Threshold of the most sensitive static receiver of the node, per corner. */
+/** Threshold of the most sensitive static receiver of the node, per corner. Only the receivers are analysed (memoised by signature). */
 export function receiverThresholds(d: DynamicNode): Threshold[] {
   const high = d.style === 'n-evaluate';
-  const analyses = d.receivers.length ? stageAnalysesOf(d.ctx) : [];
-  const byStage = new Map<number, StageAnalysis>();
-  for (const a of analyses) byStage.set(a.stage.id, a);
+  const env = d.receivers.length ? stageEnvironmentOf(d.ctx) : null;
+  const analyses = env ? d.receivers.map((r) => analyseStage(env, r)) : [];
   return d.ctx.deck.corners.map((corner, ci) => {
     let best: Threshold | null = null;
-    for (const r of d.receivers) {
-      const a = byStage.get(r.id);
-      const inp = a?.inputs.find((i) => i.input === d.node);
+    analyses.forEach((a, i) => {
+      const inp = a.inputs.find((x) => x.input === d.node);
       const c = inp?.corners[ci];
-      if (!c) continue;
+      if (!c) return;
       for (const x of c.cases) {
         const v = high ? x.result.vih : x.result.vil;
         if (v === null) continue;
-        if (!best || (high ? v > best.value : v < best.value)) best = { value: v, source: 'receiver', stage: r.id };
+        if (!best || (high ? v > best.value : v < best.value)) best = { value: v, source: 'receiver', stage: d.receivers[i].id };
       }
-    }
+    });
     return best ?? { value: corner.vdd / 2, source: 'assumed', stage: null };
   });
 }

@@ -4,7 +4,8 @@
 import type { z } from 'zod';
 import type { Corner } from '../../shared/deck';
 import type { chainPlotSchema } from '../../shared/findings';
-import { stageAnalysesOf, stageEnvironment, stageTransferFunction, stagesOf, type Stage, type TransferCase } from '../stages';
+import { analyseStage, stageTransferFunction, type Stage, type TransferCase } from '../stages';
+import { stageEnvironmentOf } from './context';
 import type { CellContext } from '../types';
 import { passedLevels, type PassChain } from './pass';
 
@@ -18,10 +19,11 @@ export interface ReceiverLevel {
 
 /** Thresholds of each static receiver of the chain at the corner with index `cornerIndex`. */
 export function receiverLevels(ctx: CellContext, chain: PassChain, cornerIndex: number): ReceiverLevel[] {
-  const analyses = stageAnalysesOf(ctx);
+  const env = stageEnvironmentOf(ctx);
   const out: ReceiverLevel[] = [];
   for (const r of chain.receivers) {
-    const a = analyses[r.id];
+    // Only the receivers are analysed (memoised by stage signature), not every stage of the cell.
+    const a = analyseStage(env, r);
     const inp = a?.inputs.find((i) => i.input === chain.receiver);
     const c = inp?.corners[cornerIndex];
     if (!c || !c.cases.length) continue;
@@ -51,7 +53,7 @@ export function chainFigure(ctx: CellContext, chain: PassChain, corner: Corner, 
     const passed = passedLevels(ctx, { ...chain, steps: chain.steps.slice(0, i + 1) }, corner);
     levels.push(logicHigh ? passed.high : passed.low);
   }
-  const env = stageEnvironment(ctx, stagesOf(ctx));
+  const env = stageEnvironmentOf(ctx);
   const f = stageTransferFunction(env, receiver.stage, chain.receiver, receiver.worst.held, corner);
   const out = f(levels[levels.length - 1]);
   const clean = f(logicHigh ? corner.vdd : 0);

@@ -11,8 +11,8 @@ import type { Cell, Design, RailKind } from '../../grammar/design';
 import type { Deck } from '../../shared/deck';
 import { globMatcher } from '../../shared/deck';
 import type { CellContext, PortSignal } from '../types';
-import { stagesOf } from '../stages';
-import type { CellStages, Stage } from '../stages';
+import { stageEnvironment, stagesOf } from '../stages';
+import type { CellStages, Stage, StageEnvironment } from '../stages';
 
 /**
  * Rails each net of a cell carries from local evidence: name patterns, `.global` names held by a source, sources
@@ -275,4 +275,9 @@ export const RESTORING_KINDS: ReadonlySet<Stage['kind']> = new Set(['inverter', 
 /** Whether the cell's ports are local nets here: a root of the design, or a synthetic cell. */
 export function portsAreLocal(ctx: CellContext): boolean {
   return ctx.root ?? (ctx.cell.isTopLevel || ctx.design.roots.includes(ctx.cell.key));
+}
+
+/** The stage-analysis environment of a context (rails and ties as its stages see them), made once. */
+export function stageEnvironmentOf(ctx: CellContext): StageEnvironment {
+  return ctx.memo('recognition.stage-environment', () => stageEnvironment(ctx, stagesOf(ctx)));
 }

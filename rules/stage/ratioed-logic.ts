@@ -1,9 +1,9 @@
 import { z } from 'zod';
 import { defineRule } from '../types';
 import { networkElements } from '../electrical/network';
-import { stageAnalysesOf, stageDeviceNames, stageLabel, transferPlot, volts } from '../stages';
+import { analyseStage, stageDeviceNames, stageLabel, stagesOf, transferPlot, volts } from '../stages';
 import { stageLogic } from '../stages/classify';
-import { stageEnvironment, stagesOf } from '../stages';
+import { stageEnvironmentOf } from '../recognition/context';
 import { timingOf } from '../recognition/timing';
 
 export default defineRule({
@@ -28,11 +28,10 @@ export default defineRule({
   }),
   check(ctx, p, report) {
     timingOf(ctx);
-    const stages = stagesOf(ctx);
-    const env = stageEnvironment(ctx, stages);
-    for (const a of stageAnalysesOf(ctx)) {
-      const st = a.stage;
+    const env = stageEnvironmentOf(ctx);
+    for (const st of stagesOf(ctx).stages) {
       if (st.kind !== 'ratioed' || !st.pullUp || !st.pullDown) continue;
+      const a = analyseStage(env, st);
       const logic = stageLogic(st, ctx.cell, env.railOf, env.alias);
       // Which side is the always-on load: the fought-over level is the low one for a pull-up load, the high one for a pull-down load.
       const loadUp = logic.allAlwaysOn(networkElements(st.pullUp));
