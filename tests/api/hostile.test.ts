@@ -318,6 +318,10 @@ afterAll(async () => {
 });
 
 describe('hostile netlists through the upload API and a worker', () => {
+  it('an empty file fails: nothing was checked, so nothing may look clean', async () => {
+    await expectFailedRun('empty file', { 'empty.sp': '' }, /empty\.sp:1:1: .*no device/);
+  });
+
   it('binary junk fails with the reader\'s first problems and a count of the rest', async () => {
     const { run } = await expectFailedRun('binary junk (256 KiB)', { 'junk.sp': junkBytes(256 * 1024) }, /could not be read:\njunk\.sp:\d+:\d+: /);
     // formatDiagnostics (server/worker/jobs.ts) lists at most 50 errors and counts the others.
@@ -335,6 +339,30 @@ describe('hostile netlists through the upload API and a worker', () => {
     // A line starting with + continues the previous one (SPICE convention).
     const text = `* Lantern hostile: ten thousand continuations\n${INVERTER}x1 a\n${'+ n\n'.repeat(10_000)}+ linv\n`;
     await expectFailedRun('10 000 continuation lines', { 'cont.sp': text }, /cont\.sp:6:1: x1 connects 10001 nodes to linv/);
+  });
+
+  it('a hierarchy thousands of levels deep fails with the depth it reached', async () => {
+    await expectFailedRun('hierarchy 5 000 levels deep', { 'deep.sp': deepHierarchy(5000) }, /deep\.sp:\d+:\d+: .*levels deep/);
+  });
+
+  it('an exponentially fanning hierarchy fails once it can no longer be counted exactly', async () => {
+    // 2^64 inverters: beyond 2^53, the largest integer a double holds exactly (IEEE 754 binary64).
+    await expectFailedRun('hierarchy fanning to 2^64 cells', { 'fan.sp': fanningHierarchy(64) }, /fan\.sp:\d+:\d+: .*more .*than can be counted exactly/);
+  });
+
+  it('just inside those two bounds, the same shapes are checked', async () => {
+    for (const [input, text] of [
+      ['hierarchy 256 levels deep', deepHierarchy(256)],
+      ['hierarchy fanning to 2^52 cells', fanningHierarchy(52)],
+    ] as const) {
+      resetPeakRss(worker.child.pid!);
+      const started = performance.now();
+      const res = await submitUpload(hostile.agent, hostile.block.id, { 'bound.sp': text }).expect(201);
+      const run = await waitForRun(hostile.agent, res.body.run.id, undefined, { timeoutMs: BOUNDS.elapsedMs });
+      figures.push({ input, outcome: `run ${run.state}`, message: `${run.summary?.cells} cells`, elapsedMs: performance.now() - started, workerPeakMiB: peakRss(worker.child.pid!) / MiB });
+      expect(run.state, run.error ?? '').toBe('succeeded');
+      expect(run.summary?.cells).toBe(text.match(/^\.subckt/gm)!.length);
+    }
   });
 
   it('a NUL inside a device name is read as U+FFFD, so the finding quoting it can be stored', async () => {
