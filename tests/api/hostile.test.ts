@@ -434,6 +434,35 @@ describe('hostile netlists through the upload API and a worker', () => {
   });
 });
 
+describe('a 200 MB upload, streamed', () => {
+  it('is refused once a file passes the limit per file, long before it has all arrived', async () => {
+    const cookie = await cookieOf(hostile.email, hostile.password);
+    const started = performance.now();
+    const answer = await streamUpload(serverUrl(env.server), cookie, hostile.block.id, [{ name: 'huge.sp', bytes: 200 * 1000 * 1000 }]);
+    const elapsedMs = performance.now() - started;
+    figures.push({ input: '200 MB in one file (chunked)', outcome: `refused ${answer.status}`, message: answer.body.error?.message ?? '', elapsedMs, workerPeakMiB: null });
+    // RFC 9110 §15.5.14: 413 Content Too Large.
+    expect(answer.status).toBe(413);
+    expect(answer.body.error?.message).toMatch(/larger than 64 MiB, the limit per file/);
+    // The answer came when about 64 MiB had been read (plus what sockets buffer), not after 200 MB.
+    expect(answer.sentWhenAnswered).toBeLessThan(64 * MiB + 16 * MiB);
+    expect(elapsedMs).toBeLessThan(BOUNDS.elapsedMs);
+  });
+
+  it('is refused once the upload passes the limit in all, even when each file is small', async () => {
+    const limited = await env.serverWith({ KEEPWELL_LOGIN_MAX_PER_IP: '1000', KEEPWELL_UPLOAD_MAX_TOTAL_BYTES: String(48 * MiB) });
+    const cookie = await cookieOf(hostile.email, hostile.password);
+    const files = Array.from({ length: 20 }, (_, i) => ({ name: `part${i}.sp`, bytes: 10 * 1000 * 1000 }));
+    const started = performance.now();
+    const answer = await streamUpload(serverUrl(limited), cookie, hostile.block.id, files);
+    const elapsedMs = performance.now() - started;
+    figures.push({ input: '200 MB in 20 files (chunked)', outcome: `refused ${answer.status}`, message: answer.body.error?.message ?? '', elapsedMs, workerPeakMiB: null });
+    expect(answer.status).toBe(413);
+    expect(answer.body.error?.message).toMatch(/more than 48 MiB, the limit per upload/);
+    expect(answer.sentWhenAnswered).toBeLessThan(48 * MiB + 16 * MiB);
+  });
+});
+
 describe('meanwhile', () => {
   it('the other team was answered promptly throughout, and its run came out right', async () => {
     const run = await waitForRun(bystander.agent, bystanderRun, undefined, { timeoutMs: 120_000 });

@@ -9,6 +9,7 @@ import type { Config } from '../../config';
 import type { AppContext } from '../../context';
 import { HttpError } from '../../errors';
 import { checkDeclaredLength, formatBytes, getNetlist, netlistView, storeUpload, type IncomingFile } from '../../services/uploads';
+import { tooLarge } from '../../services/uploads-archive';
 import { parseRequest } from '../http';
 import { requirePermission, signedIn, teamIdOf } from '../middleware/auth';
 
@@ -16,8 +17,6 @@ import { requirePermission, signedIn, teamIdOf } from '../middleware/auth';
 function uploadError(err: unknown, limits: Config['upload']): unknown {
   if (!(err instanceof multer.MulterError)) return err;
   switch (err.code) {
-    case 'LIMIT_FILE_SIZE':
-      return new HttpError(413, 'payload-too-large', `${err.field ? `A file of "${err.field}"` : 'A file'} is larger than ${formatBytes(limits.maxFileBytes)}, the limit per file (KEEPWELL_UPLOAD_MAX_FILE_BYTES).`);
     case 'LIMIT_FILE_COUNT':
     case 'LIMIT_PART_COUNT':
       return new HttpError(413, 'payload-too-large', `An upload may hold at most ${limits.maxFiles} files (KEEPWELL_UPLOAD_MAX_FILES).`);
@@ -30,18 +29,75 @@ function uploadError(err: unknown, limits: Config['upload']): unknown {
   }
 }
 
+/** Per request: how to refuse it at once, set by netlistMultipart for the storage below. */
+const refuseNow = new WeakMap<object, (err: HttpError) => void>();
+
+/**
+ * multer's memory storage, counting each file's bytes and the upload's total as they arrive.
+ * (multer has no limit in all, so every file under the limit per file was held until the body
+ * ended; and it answers a limit only once the whole body has been read.) Past a limit the file
+ * is dropped, the rest of the body is read and discarded, and the request is refused at once.
+ */
+function countedMemoryStorage(limits: Config['upload']): multer.StorageEngine {
+  const received = new WeakMap<object, number>();
+  return {
+    _handleFile(req, file, callback) {
+      const chunks: Buffer[] = [];
+      let size = 0;
+      let refused = false;
+      const onData = (chunk: Buffer) => {
+        size += chunk.length;
+        const total = (received.get(req) ?? 0) + chunk.length;
+        received.set(req, total);
+        const over =
+          size > limits.maxFileBytes
+            ? tooLarge(`${file.originalname} is larger than ${formatBytes(limits.maxFileBytes)}, the limit per file (KEEPWELL_UPLOAD_MAX_FILE_BYTES).`)
+            : total > limits.maxTotalBytes
+              ? tooLarge(`The upload holds more than ${formatBytes(limits.maxTotalBytes)}, the limit per upload (KEEPWELL_UPLOAD_MAX_TOTAL_BYTES).`)
+              : null;
+        if (!over) return void chunks.push(chunk);
+        refused = true;
+        chunks.length = 0;
+        file.stream.off('data', onData);
+        file.stream.resume();
+        refuseNow.get(req)?.(over);
+        callback(over);
+      };
+      file.stream.on('data', onData);
+      file.stream.on('end', () => {
+        if (refused) return;
+        const buffer = Buffer.concat(chunks);
+        callback(null, { buffer, size: buffer.length });
+      });
+    },
+    _removeFile(_req, file, callback) {
+      delete (file as { buffer?: Buffer }).buffer;
+      callback(null);
+    },
+  };
+}
+
 /** Reads a multipart body into memory within the configured limits; other content types pass through untouched. */
 export function netlistMultipart(config: Config): RequestHandler {
   const { upload } = config;
   const parse = multer({
-    storage: multer.memoryStorage(),
-    limits: { fileSize: upload.maxFileBytes, files: upload.maxFiles, fields: 20, fieldSize: 64 * 1024, parts: upload.maxFiles + 20 },
+    storage: countedMemoryStorage(upload),
+    limits: { files: upload.maxFiles, fields: 20, fieldSize: 64 * 1024, parts: upload.maxFiles + 20 },
     defParamCharset: 'utf8',
   }).array('files', upload.maxFiles);
   return (req, res, next) => {
     if (!req.is('multipart/form-data')) return next();
     checkDeclaredLength(req.headers['content-length'], upload);
-    parse(req, res, (err?: unknown) => (err ? next(uploadError(err, upload)) : next()));
+    // Answered once: at the first limit passed (the storage), or when multer is done with the body.
+    let answered = false;
+    const answer = (err?: unknown) => {
+      if (answered) return;
+      answered = true;
+      refuseNow.delete(req);
+      next(err);
+    };
+    refuseNow.set(req, answer);
+    parse(req, res, (err?: unknown) => answer(err ? uploadError(err, upload) : undefined));
   };
 }
 
