@@ -13,7 +13,8 @@ import { RouteError } from '../features/errors/RouteError';
 import { HomePage } from '../features/home/HomePage';
 import { ReviewReportPage } from '../features/reports/ReviewReportPage';
 import { RunPage } from '../features/runs/RunPage';
-import { TokensPage } from '../features/settings/TokensPage';
+import { TokensPage } from '../features/tokens/TokensPage';
+import { WaiverPage } from '../features/waivers/WaiverPage';
 import { WaiversPage } from '../features/waivers/WaiversPage';
 import { RequirePermission, RequireSession } from './guards';
 import { Shell } from './Shell';
@@ -44,6 +45,7 @@ export const routes: RouteObject[] = [
                   { path: 'decks/:deckId', element: <DeckPage /> },
                   { path: 'decks/:deckId/versions/:versionId', element: <DeckVersionPage /> },
                   { path: 'waivers', element: <WaiversPage /> },
+                  { path: 'waivers/:waiverId', element: <WaiverPage /> },
                   { path: 'admin/users', element: <RequirePermission permission="user.manage"><UsersPage /></RequirePermission> },
                   { path: 'admin/outbox', element: <RequirePermission permission="outbox.read"><OutboxPage /></RequirePermission> },
                   { path: 'admin/outbox/:messageId', element: <RequirePermission permission="outbox.read"><OutboxMessagePage /></RequirePermission> },

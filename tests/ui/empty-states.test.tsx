@@ -23,7 +23,7 @@ describe('empty states', () => {
   });
 
   it('pages not yet filled show what they will hold', async () => {
-    fakeApi(sessionRoutes(users.reviewer));
+    fakeApi({ ...sessionRoutes(users.reviewer), 'GET /api/waivers': () => json(200, { items: [], total: 0, page: 1, pageSize: 50 }) });
     renderApp('/waivers');
     const empty = await screen.findByRole('region', { name: 'No waivers yet' });
     expect(empty).toHaveTextContent('You approve or reject each request');

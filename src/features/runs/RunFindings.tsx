@@ -10,6 +10,7 @@ import { EmptyState } from '../../components/EmptyState';
 import { Loading } from '../../components/LoadState';
 import { ErrorNotice } from '../../components/Notice';
 import { FindingDetail } from '../findings/FindingDetail';
+import { FindingWaiver } from '../waivers/FindingWaiver';
 import { DEFAULT_COLUMNS, FindingsTable } from '../findings/FindingsTable';
 import { findingQuery, findingsQuery, ruleCatalogueQuery } from '../findings/queries';
 import { FINDING_KEY, hasFilters, readView, writeView, type FindingsView } from '../findings/view-state';
@@ -110,7 +111,9 @@ export function RunFindings({ run }: { run: RunDetail }) {
                 rule={rules.data?.get(selected.ruleId)}
                 ruleLoading={rules.isPending}
                 onShowInNetlist={() => netlistRef.current?.scrollIntoView({ behavior: 'smooth', block: 'start' })}
-              />
+              >
+                <FindingWaiver finding={selected} runId={run.id} />
+              </FindingDetail>
             ) : selectedId !== null && single.isError ? (
               <ErrorNotice error={single.error} title="Could not load that finding" />
             ) : selectedId !== null && (single.isFetching || findings.isFetching) ? (
