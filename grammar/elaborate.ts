@@ -28,7 +28,7 @@ import type {
   SubcktStatement,
   Value,
 } from './ast';
-import type { Cell, Design, Device, Diagnostic, DiagnosticSeverity,  ModelCard, Mosfet, MosPolarity, PinDirection, RailKind, SourceLoc } from './design';
+import type { Cell, Design, Diagnostic, DiagnosticSeverity, ModelCard, Mosfet, MosPolarity, PinDirection, RailKind, SourceLoc } from './design';
 import { evaluate } from './expression';
 import { NumberCache } from './numbers';
 import { parseNetlist } from './parser';
@@ -46,7 +46,11 @@ export interface ReadOptions {
   /** The deck's default length scale. */
   defaultScale: number;
   deviceMap: DeviceMapEntry[];
-  /** Power and ground name globs (rails are applied by the rule engine; kept here for callers that need them). */
+  /**
+   * The deck's power and ground name globs. Ground names serve as references of voltage
+   * sources (`Vdd vdd vss 1.8` makes vdd a rail); naming rails by pattern in every cell
+   * is the rule engine's part (rules/engine.ts `localRails`).
+   */
   supplies: { power: string[]; ground: string[] };
 }
 
@@ -101,7 +105,6 @@ interface CellDef {
   relevant: string[] | null;
   variants: Map<string, Cell>;
   defaultBinding: Binding | null;
-  order: number;
 }
 
 type Binding = Map<string, number | undefined>;
@@ -264,7 +267,6 @@ class Elaborator {
       relevant: null,
       variants: new Map(),
       defaultBinding: null,
-      order: this.allDefs.length,
     };
     this.allDefs.push(def);
     return def;
@@ -1318,4 +1320,3 @@ function sourcedRails(design: Design, top: Cell | undefined, isGroundName: (name
   return rails;
 }
 
-export type { Device };

@@ -10,20 +10,22 @@ import { LocationCursor } from './source';
 import { foldAscii, hashRange, RangeIndex, rangeEquals } from './text-hash';
 
 const RECENT_SLOTS = 4096;
+const RECENT_AFTER = 4096;
 
 export class NameTable {
   /** Each name as first written; index = id. */
   readonly names: string[] = [];
   /** Offset (in the body's file) of each name's first mention. */
   readonly firstOffsets: number[] = [];
-  private readonly lookup = new RangeIndex((e) => this.names[e], true, 64);
+  private readonly lookup = new RangeIndex((e) => this.names[e], true, 16);
   /**
    * A small direct-mapped cache of recently seen names (id + 1 by hash), in front of the
    * big table: a net is usually mentioned again a few lines after its first mention, and
    * the rails on every line, so most lookups stay in a few cache-resident kilobytes.
+   * Made only once a table is large (a small table is cache-resident itself).
    */
-  private readonly recent = new Int32Array(RECENT_SLOTS);
-  private readonly recentHash = new Int32Array(RECENT_SLOTS);
+  private recent: Int32Array | null = null;
+  private recentHash: Int32Array | null = null;
   private map: NameIndex | null = null;
   private locs: SourceLoc[] | null = null;
 
@@ -34,13 +36,24 @@ export class NameTable {
   /** Id of the name written at `text[start, end)`, first mentioned at `offset` of its file. */
   idAt(text: string, start: number, end: number, offset: number): number {
     const h = hashRange(text, start, end, true);
+    const recent = this.recent;
+    if (recent === null) {
+      const known = this.lookup.find(text, start, end, h);
+      if (known >= 0) return known;
+      const id = this.append(text.substring(start, end), h, offset);
+      if (id >= RECENT_AFTER) {
+        this.recent = new Int32Array(RECENT_SLOTS);
+        this.recentHash = new Int32Array(RECENT_SLOTS);
+      }
+      return id;
+    }
     const slot = h & (RECENT_SLOTS - 1);
-    const cached = this.recent[slot] - 1;
-    if (cached >= 0 && this.recentHash[slot] === (h | 0) && rangeEquals(text, start, end, this.names[cached], true)) return cached;
+    const cached = recent[slot] - 1;
+    if (cached >= 0 && this.recentHash![slot] === (h | 0) && rangeEquals(text, start, end, this.names[cached], true)) return cached;
     let id = this.lookup.find(text, start, end, h);
     if (id < 0) id = this.append(text.substring(start, end), h, offset);
-    this.recent[slot] = id + 1;
-    this.recentHash[slot] = h | 0;
+    recent[slot] = id + 1;
+    this.recentHash![slot] = h | 0;
     return id;
   }
 

@@ -955,6 +955,17 @@ class FileBuilder {
   // ---- end of file ----
 
   finish(): void {
+    while (this.stack.length) {
+      const open = this.stack.pop()!;
+      const at = open.kind === 'subckt' ? open.start : this.cursorOffset(open.loc);
+      if (open.kind === 'subckt') {
+        this.report('error', 'unclosed-subckt', at, `.subckt ${open.name} is never closed`, `add ".ends ${open.name}" after its last element`);
+        open.end = this.text.length;
+      } else {
+        this.report('error', 'unclosed-lib', at, `.lib section ${open.name} is never closed`, 'add ".endl" after its last statement');
+      }
+    }
+    if (this.control) this.report('warning', 'unclosed-control', this.cursorOffset(this.control), '.control block is never closed; the rest of the file was skipped', 'add ".endc"');
     if (this.suppressed) {
       this.diagnostics.push({
         severity: 'error',
@@ -966,24 +977,10 @@ class FileBuilder {
         column: 1,
       });
     }
-    while (this.stack.length) {
-      const open = this.stack.pop()!;
-      if (open.kind === 'subckt') {
-        this.diagnostics.push({
-          severity: 'error',
-          code: 'unclosed-subckt',
-          message: `.subckt ${open.name} is never closed`,
-          hint: `add ".ends ${open.name}" after its last element`,
-          ...open.loc,
-        });
-        open.end = this.text.length;
-      } else {
-        this.diagnostics.push({ severity: 'error', code: 'unclosed-lib', message: `.lib section ${open.name} is never closed`, hint: 'add ".endl" after its last statement', ...open.loc });
-      }
-    }
-    if (this.control) {
-      this.diagnostics.push({ severity: 'warning', code: 'unclosed-control', message: '.control block is never closed; the rest of the file was skipped', hint: 'add ".endc"', ...this.control });
-    }
+  }
+
+  private cursorOffset(loc: SourceLoc): number {
+    return this.starts[loc.line - 1] + loc.column - 1;
   }
 }
 

@@ -141,4 +141,20 @@ describe('hostile input', () => {
     const large = timeOf(netlist(2000));
     expect(large / small).toBeLessThan(10);
   });
+
+  it('grows linearly on random junk too', () => {
+    // The same comparison on fast-check's random text (a fixed seed), 50 kB against 200 kB.
+    const junk = (n: number) => fc.sample(fc.string({ unit: fc.constantFrom(...'Mx.+*{}()=\'"$ ;\n\t0123456789abcdefghij'.split('')), minLength: n, maxLength: n }), { numRuns: 1, seed: 42 })[0];
+    const timeOf = (text: string) => {
+      let best = Infinity;
+      for (let r = 0; r < 3; r++) {
+        const t = performance.now();
+        read('* junk\n' + text);
+        best = Math.min(best, performance.now() - t);
+      }
+      return best;
+    };
+    timeOf(junk(10_000));
+    expect(timeOf(junk(200_000)) / timeOf(junk(50_000))).toBeLessThan(10);
+  });
 });
