@@ -14,6 +14,8 @@ import type { CellContext, PortSignal } from '../types';
 import { stageEnvironment, stagesOf } from '../stages';
 import type { CellStages, Stage, StageEnvironment } from '../stages';
 
+const supplyMatchers = new WeakMap<Deck, { power: (name: string) => boolean; ground: (name: string) => boolean }>();
+
 /**
  * Rails each net of a cell carries from local evidence: name patterns, `.global` names held by a source, sources
  * inside the cell, and wells: a port (or global) that is the body of p-channel devices and otherwise touches only
@@ -21,8 +23,10 @@ import type { CellStages, Stage, StageEnvironment } from '../stages';
  * rail); the mirror image is a ground.
  */
 export function localRails(design: Design, cell: Cell, deck: Deck): (RailKind | undefined)[] {
-  const isPower = globMatcher(deck.supplies.power);
-  const isGround = globMatcher(deck.supplies.ground);
+  let matchers = supplyMatchers.get(deck);
+  if (!matchers) supplyMatchers.set(deck, (matchers = { power: globMatcher(deck.supplies.power), ground: globMatcher(deck.supplies.ground) }));
+  const isPower = matchers.power;
+  const isGround = matchers.ground;
   const n = cell.nets.length;
   const rails: (RailKind | undefined)[] = new Array(n);
   let unnamedPorts = false;
@@ -112,8 +116,14 @@ export function makeContext(design: Design, deck: Deck, cell: Cell, rails: (Rail
 export function childContext(design: Design, deck: Deck, cellKey: string, portRails: readonly (RailKind | undefined)[]): CellContext | null {
   const cell = design.cells.get(cellKey);
   if (!cell) return null;
-  const rails = railsWithPorts(design, cell, deck, portRails);
-  return designMemo(design, deck, `child|${cellKey}|${railSignature(cell.ports.map((p) => rails[p]))}`, () => makeContext(design, deck, cell, rails));
+  return designMemo(design, deck, `child|${cellKey}|${railSignature(portRails)}`, () => {
+    const base = designMemo(design, deck, `local-rails|${cellKey}`, () => localRails(design, cell, deck));
+    const rails = base.slice();
+    cell.ports.forEach((net, i) => {
+      if (rails[net] === undefined && portRails[i] !== undefined) rails[net] = portRails[i];
+    });
+    return makeContext(design, deck, cell, rails);
+  });
 }
 
 /** Rails of an instance's pins as its parent sees them. */

@@ -114,13 +114,31 @@ export function dynamicNodesOf(ctx: CellContext): DynamicNode[] {
     const viaRegion = new Set<number>();
     const cell = ctx.cell;
     if (cell.instances.length) {
+      // What the children do with each local net: reach a device channel, or could precharge it (one look per instance).
+      const childChannel = new Uint8Array(cell.nets.length);
+      const childPrecharge = new Uint8Array(cell.nets.length);
+      cell.instances.forEach((inst, k) => {
+        const channel = channelPorts(ctx, k);
+        let any = false;
+        inst.pins.forEach((p, j) => {
+          if (channel[j]) {
+            childChannel[index.alias[p]] = 1;
+            any = true;
+          }
+        });
+        if (!any) return;
+        const precharge = prechargePorts(ctx, k);
+        inst.pins.forEach((p, j) => {
+          if (precharge[j]) childPrecharge[index.alias[p]] = 1;
+        });
+      });
       const seen = new Set<number>();
       for (const inst of cell.instances) {
         for (const p of inst.pins) {
           const net = index.alias[p];
           if (seen.has(net) || index.railOf(net) || (!local && index.isPort[net])) continue;
           seen.add(net);
-          if (!regionCandidate(ctx, index, net, timing.dynamic)) continue;
+          if (!regionCandidate(ctx, index, net, timing.dynamic, childChannel[net] === 1, childPrecharge[net] === 1)) continue;
           const region = buildRegion(ctx, net);
           if (!region) continue;
           viaRegion.add(net);
@@ -144,15 +162,7 @@ export function dynamicNodesOf(ctx: CellContext): DynamicNode[] {
 }
 
 /** A local net tied to child pins is judged as a region when it has a dynamic stage here, or a child could precharge it while no static stage here drives it. */
-function regionCandidate(ctx: CellContext, index: CellIndex, net: number, dynamic: Map<number, DynamicInfo>): boolean {
-  const insts = index.pinInstances.of(net);
-  const ports = index.pinPorts.of(net);
-  let childChannel = false;
-  let childPrecharge = false;
-  for (let k = 0; k < insts.length; k++) {
-    if (channelPorts(ctx, insts[k])[ports[k]]) childChannel = true;
-    if (prechargePorts(ctx, insts[k])[ports[k]]) childPrecharge = true;
-  }
+function regionCandidate(ctx: CellContext, index: CellIndex, net: number, dynamic: Map<number, DynamicInfo>, childChannel: boolean, childPrecharge: boolean): boolean {
   const d = index.stages.driverOf.get(net);
   if (d !== undefined && dynamic.has(d)) return true;
   if (!childChannel) return false;
