@@ -109,6 +109,9 @@ interface CellDef {
 
 type Binding = Map<string, number | undefined>;
 
+/** Parameter lookup: a value, undefined for an unknown name, null for a declared parameter without a value. */
+type Lookup = (name: string) => number | undefined | null;
+
 interface Pending {
   def: CellDef;
   cell: Cell;
@@ -451,16 +454,32 @@ class Elaborator {
   }
 
   /** Evaluate a value; reports expression errors against `file`. Bare words that name no parameter give undefined silently when `quietBare`. */
-  private evalValue(value: Value, file: string, lookup: (name: string) => number | undefined, quietBare = false): number | undefined {
+  /**
+   * Evaluate a value; reports expression errors against `file`. `lookup` gives null for a
+   * subcircuit parameter declared without a default that the instance does not give.
+   * Bare words that name no parameter give undefined silently when `quietBare`.
+   */
+  private evalValue(value: Value, file: string, lookup: Lookup, quietBare = false): number | undefined {
     if (typeof value === 'number') return value;
+    let unset: string | null = null;
+    const read = (n: string) => {
+      const v = lookup(n);
+      if (v === null) unset ??= n;
+      return v ?? undefined;
+    };
+    const unsetProblem = (at: number) => {
+      this.report('error', 'unknown-parameter', file, at, `parameter "${unset}" has no value: it is declared without a default and the instance gives none`, `give it a default (params: ${unset}=…) or a value on the X line`);
+    };
     if (value.bare && value.compiled.node.t === 'ref') {
-      const v = lookup(value.compiled.node.name);
-      if (v === undefined && !quietBare) this.report('error', 'unknown-parameter', file, value.offset, `unknown parameter "${value.text}"`, 'define it with .param, as a subcircuit parameter, or write a number');
+      const v = read(value.compiled.node.name);
+      if (v === undefined && unset) unsetProblem(value.offset);
+      else if (v === undefined && !quietBare) this.report('error', 'unknown-parameter', file, value.offset, `unknown parameter "${value.text}"`, 'define it with .param, as a subcircuit parameter, or write a number');
       return v;
     }
-    const r = evaluate(value.compiled.node, (n) => lookup(n));
+    const r = evaluate(value.compiled.node, read);
     if (!r.ok) {
-      this.report('error', r.message.startsWith('unknown parameter') ? 'unknown-parameter' : 'bad-expression', file, value.offset + r.at, `${r.message} in "${value.text}"`, 'define the parameters it uses, or write a number');
+      if (unset) unsetProblem(value.offset + r.at);
+      else this.report('error', r.message.startsWith('unknown parameter') ? 'unknown-parameter' : 'bad-expression', file, value.offset + r.at, `${r.message} in "${value.text}"`, 'define the parameters it uses, or write a number');
       return undefined;
     }
     return r.value;
@@ -687,7 +706,7 @@ class Elaborator {
     const localDefs = new Map<string, Param>();
     for (const p of def.localParams) localDefs.set(p.name, p);
     const localEvaluating = new Set<string>();
-    const lookup = (name: string): number | undefined => {
+    const lookup = (name: string): number | undefined | null => {
       const lp = localDefs.get(name);
       if (lp) {
         const known = localValues.get(name);
@@ -702,7 +721,7 @@ class Elaborator {
         localValues.set(name, v ?? null);
         return v;
       }
-      if (binding.has(name)) return binding.get(name);
+      if (binding.has(name)) return binding.get(name) ?? null;
       return this.globalValue(name);
     };
 
@@ -859,7 +878,7 @@ class Elaborator {
     l: Value | undefined,
     file: string,
     loc: SourceLoc,
-    lookup: (n: string) => number | undefined,
+    lookup: Lookup,
     scale: number,
   ): { w: number; l: number } | null {
     let wv = w === undefined ? undefined : typeof w === 'number' ? w : this.evalValue(w, file, lookup);
@@ -873,7 +892,7 @@ class Elaborator {
     return { w: wv * scale, l: lv * scale };
   }
 
-  private mosfet(el: MosStatement, polarity: MosPolarity, net: (id: number) => number, lookup: (n: string) => number | undefined, scale: number): Mosfet | null {
+  private mosfet(el: MosStatement, polarity: MosPolarity, net: (id: number) => number, lookup: Lookup, scale: number): Mosfet | null {
     const file = el.loc.file;
     let w: number;
     let l: number;
@@ -925,7 +944,7 @@ class Elaborator {
     kind: DeviceKind,
     cell: Cell,
     net: (id: number) => number,
-    lookup: (n: string) => number | undefined,
+    lookup: Lookup,
     scale: number,
     ties: [number, number][],
   ): void {
@@ -942,8 +961,17 @@ class Elaborator {
         if (p.name === 'w') wv = p.value;
         else if (p.name === 'l') lv = p.value;
       }
-      const size = this.sizes(el.name, wv, lv, file, el.loc, lookup, scale);
-      if (!size) return;
+      let w: number;
+      let l: number;
+      if (typeof wv === 'number' && typeof lv === 'number') {
+        w = wv * scale;
+        l = lv * scale;
+      } else {
+        const size = this.sizes(el.name, wv, lv, file, el.loc, lookup, scale);
+        if (!size) return;
+        w = size.w;
+        l = size.l;
+      }
       let params = EMPTY_PARAMS;
       let m: number | undefined;
       let mult: number | undefined;
@@ -969,8 +997,8 @@ class Elaborator {
         source: net(el.nodes[2]),
         bulk: net(el.nodes[3]),
         model: el.cell,
-        w: size.w,
-        l: size.l,
+        w,
+        l,
         m: m ?? mult ?? 1,
         nf,
         params,

@@ -267,6 +267,51 @@ describe('subcircuits, parameters, models, options', () => {
     expect(d.models.get('fastn')).toMatchObject({ type: 'nmos', params: { level: 1, vto: 0.45, kp: 120e-6, lambda: 0.05, gamma: 0.4, phi: 0.7 } });
   });
 
+  it('reads .macro/.eom as .subckt/.ends, binned model cards, and ignored device kinds', () => {
+    // HSPICE-style synonyms and binned cards (nch.1, nch.2 serve devices naming nch), recalled from memory.
+    const d = read(
+      lines(
+        '* synonyms',
+        '.model nch.1 nmos level=1 lmin=0.1u lmax=1u',
+        '.model nch.2 nmos level=1 lmin=1u lmax=10u',
+        '.macro cell a y',
+        'M1 y a 0 0 nch w=1u l=0.5u',
+        'X9 y a fill_cap_cell',
+        '.eom',
+      ),
+      { deviceMap: [{ pattern: 'fill_*', kind: 'ignore' }] },
+    );
+    expect(d.diagnostics).toEqual([]);
+    const c = cell(d, 'cell');
+    expect(c.mosfets.map((m) => m.polarity)).toEqual(['n']);
+    expect(c.others).toEqual([]);
+  });
+
+  it('warns about a MOSFET without W or L and uses the SPICE default or .option defw/defl', () => {
+    // SPICE3: DEFW and DEFL default to 100 µm (recalled from the ngspice manual's .options list).
+    const d = read(lines('* sizes', 'M1 y a 0 0 nch l=1u', 'M2 y a 0 0 nch'));
+    expect(where(d)).toEqual(['missing-size@2:1', 'missing-size@3:1']);
+    const top = cell(d, TOP_LEVEL_CELL);
+    expect(mos(top, 'M1').w).toBeCloseTo(100e-6, 15);
+    expect(mos(top, 'M2').l).toBeCloseTo(100e-6, 15);
+    const withDefaults = read(lines('* sizes', '.option defw=2u defl=0.5u', 'M1 y a 0 0 nch'));
+    expect(mos(cell(withDefaults, TOP_LEVEL_CELL), 'M1').w).toBeCloseTo(2e-6, 15);
+    expect(mos(cell(withDefaults, TOP_LEVEL_CELL), 'M1').l).toBeCloseTo(0.5e-6, 15);
+  });
+
+  it('refuses an M line whose model card is not a MOSFET', () => {
+    const d = read(lines('* kinds', '.model rpoly r rsh=100', 'M1 y a 0 0 rpoly w=1u l=1u'));
+    expect(where(d)).toEqual(['model-kind@3:12']);
+  });
+
+  it('reports a declared subcircuit parameter that never gets a value', () => {
+    const d = read(lines('* params', '.subckt c a params: w', 'M1 a a 0 0 nch w={w} l=1u', '.ends', 'X1 n c'));
+    expect(codes(d)).toEqual(['unknown-parameter']);
+    expect(d.diagnostics[0].message).toBe('parameter "w" has no value: it is declared without a default and the instance gives none');
+    const given = read(lines('* params', '.subckt c a params: w', 'M1 a a 0 0 nch w={w} l=1u', '.ends', 'X1 n c w=2u'));
+    expect(given.diagnostics).toEqual([]);
+  });
+
   it('applies .option scale to W and L: w=650000u under scale=1e-6 is 0.65 µm', () => {
     // SPICE `.option scale` multiplies instance lengths (areas by its square).
     const d = read(lines('* scaled', '.option scale=1e-6', 'M1 y a 0 0 nch w=650000u l=150000u as=0.2 ps=1.8'));
