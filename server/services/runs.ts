@@ -14,6 +14,7 @@ import { conflict, forbidden, HttpError, notFound } from '../errors';
 import { enqueueRun, removeRunJobs, runQueue } from '../queue';
 import { loadQueueSettings } from '../queue/config';
 import { recordAudit } from './audit';
+import { statusCounts } from './reports';
 import { versionForRun } from './decks';
 import { mailRunEnded, progressOf } from './runs-store';
 import { getNetlist } from './uploads';
@@ -191,6 +192,8 @@ export async function runDetail(ctx: Pick<AppContext, 'sequelize'>, teamId: stri
     breakdown: extra.breakdown,
     files: files.map((f) => ({ path: f.path, size: f.size, sha256: f.sha256 })),
     caution: REVIEW_CAUTION,
+    // Waiver statuses change without a re-run (decisions, expiry): counted when read, by the one status decision.
+    statusCounts: row.state === 'succeeded' ? await statusCounts(ctx, teamId, runId, row.block_id) : null,
   };
 }
 

@@ -5,20 +5,14 @@
 // content is served as JSON (the printable page), PDF, CSV of the findings and SARIF.
 
 import { z } from 'zod';
-import { FINDING_STATUSES, storedFindingSchema } from './runs';
-import { waiverSchema } from './waivers';
+import { storedFindingSchema } from './runs';
+import { FINDING_STATUSES, findingCountsSchema, waiverSchema, type FindingCounts } from './waivers';
 
 const personSchema = z.object({ id: z.string().uuid(), name: z.string(), email: z.string() });
 
-export const statusCountsSchema = z.object(Object.fromEntries(FINDING_STATUSES.map((s) => [s, z.number().int()])) as Record<(typeof FINDING_STATUSES)[number], z.ZodNumber>);
-export type StatusCounts = z.infer<typeof statusCountsSchema>;
-
-export const reportCountsSchema = z.object({
-  /** Findings of each severity, by status. */
-  bySeverity: z.object({ error: statusCountsSchema, warning: statusCountsSchema, info: statusCountsSchema }),
-  total: statusCountsSchema,
-});
-export type ReportCounts = z.infer<typeof reportCountsSchema>;
+export { statusCountsSchema, type StatusCounts } from './waivers';
+export const reportCountsSchema = findingCountsSchema;
+export type ReportCounts = FindingCounts;
 
 export const reportWaiverSchema = waiverSchema.extend({
   /** Findings of this run whose status this waiver decides, and what it makes of them. */

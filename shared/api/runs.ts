@@ -6,7 +6,7 @@ import { z } from 'zod';
 import { severitySchema } from '../deck';
 import { checkSummarySchema, findingSchema } from '../findings';
 import { paged, pageQuerySchema } from './common';
-import { findingWaiverSchema } from './waivers';
+import { FINDING_STATUSES, findingCountsSchema, findingWaiverSchema } from './waivers';
 
 export const RUN_STATES = ['queued', 'running', 'succeeded', 'failed', 'cancelled'] as const;
 export const runStateSchema = z.enum(RUN_STATES);
@@ -169,6 +169,8 @@ export const runDetailSchema = runSchema.extend({
   files: z.array(netlistFileSchema),
   /** Said wherever results are read. */
   caution: z.string(),
+  /** For a succeeded run: its findings by severity and waiver status, as of now. */
+  statusCounts: findingCountsSchema.nullable().optional(),
 });
 export type RunDetail = z.infer<typeof runDetailSchema>;
 
@@ -177,8 +179,7 @@ export const runCreatedSchema = z.object({ run: runSchema, upload: uploadResultS
 // ---------------------------------------------------------------- findings
 
 export const FINDING_SORTS = ['severity', 'rule', 'cell', 'location', 'instances'] as const;
-/** Decided by server/services/waivers-status.ts: `waiver-lapsed` when a waiver matched but expired, was exceeded or its circuit changed. */
-export const FINDING_STATUSES = ['open', 'waived', 'waiver-requested', 'waiver-lapsed'] as const;
+export { FINDING_STATUSES };
 
 export const findingsQuerySchema = pageQuerySchema.extend({
   sort: z.enum(FINDING_SORTS).default('severity'),
@@ -205,6 +206,7 @@ export const storedFindingSchema = findingSchema.extend({
   waiver: findingWaiverSchema.nullable().optional(),
 });
 export type StoredFinding = z.infer<typeof storedFindingSchema>;
+
 export const findingPageSchema = paged(storedFindingSchema);
 
 export const COMPARE_KINDS = ['new', 'fixed', 'persisting'] as const;

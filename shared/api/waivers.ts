@@ -56,6 +56,18 @@ export const LAPSE_REASONS = ['expired', 'bound', 'changed'] as const;
 export const lapseReasonSchema = z.enum(LAPSE_REASONS);
 export type LapseReason = z.infer<typeof lapseReasonSchema>;
 
+/** A stored finding's status, decided by server/services/waivers-status.ts: `waiver-lapsed` when a waiver matched but expired, was exceeded or its circuit changed. */
+export const FINDING_STATUSES = ['open', 'waived', 'waiver-requested', 'waiver-lapsed'] as const;
+
+/** Findings by status, in all and per severity. */
+export const statusCountsSchema = z.object(Object.fromEntries(FINDING_STATUSES.map((s) => [s, z.number().int()])) as Record<(typeof FINDING_STATUSES)[number], z.ZodNumber>);
+export type StatusCounts = z.infer<typeof statusCountsSchema>;
+export const findingCountsSchema = z.object({
+  bySeverity: z.object({ error: statusCountsSchema, warning: statusCountsSchema, info: statusCountsSchema }),
+  total: statusCountsSchema,
+});
+export type FindingCounts = z.infer<typeof findingCountsSchema>;
+
 /** The waiver that decides a listed finding's status, as the findings list carries it. */
 export const findingWaiverSchema = z.object({
   id: z.string().uuid(),

@@ -135,6 +135,9 @@ describe('waivers', () => {
 
     expect((await findings(designer.agent, run1, { status: 'waived' })).map((f) => f.cell)).toEqual(['hcol_pre']);
     expect((await findings(designer.agent, run1, { status: 'open' })).map((f) => f.cell)).toEqual(['hcol_drv']);
+    // The run's counts follow the same decision.
+    const detail = (await designer.agent.get(`/api/runs/${run1}`).expect(200)).body;
+    expect(detail.statusCounts.bySeverity.error).toEqual({ open: 1, waived: 1, 'waiver-requested': 0, 'waiver-lapsed': 0 });
   });
 
   it('carries over to a re-run of the same netlist', async () => {
