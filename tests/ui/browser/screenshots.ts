@@ -11,6 +11,7 @@ import type { User } from '../../../shared/api/auth';
 import { ARTIFACTS_DIR, launchBrowser, openPage, screenshot, servePreview, type GuardedPage } from '../../support/browser';
 import { syntax } from '../../../src/design/palette';
 import { blocks, outbox, users } from '../fixtures';
+import { FINDINGS, RUN_ID } from '../runs-fixtures';
 import { printScan, scanBuild } from './check-build';
 import { DEMO_PASSWORD, mockApi } from './mock-api';
 
@@ -37,9 +38,14 @@ function settle(guarded: GuardedPage, name: string) {
   check(guarded.remoteRequests.length === 0, `${name}: no request left the machine${guarded.remoteRequests.length ? ` (${guarded.remoteRequests.join(', ')})` : ''}`);
 }
 
-async function shoot(browser: Browser, base: string, name: string, opts: { path: string; user: User | null; width?: number; height?: number; noBlocks?: boolean; ready: string; act?: (g: GuardedPage) => Promise<void> }) {
+async function shoot(
+  browser: Browser,
+  base: string,
+  name: string,
+  opts: { path: string; user: User | null; width?: number; height?: number; noBlocks?: boolean; noDecks?: boolean; ready: string; act?: (g: GuardedPage) => Promise<void> },
+) {
   const guarded = await openPage(browser, { width: opts.width ?? 1280, height: opts.height ?? 800 });
-  await mockApi(guarded.context, { user: opts.user, noBlocks: opts.noBlocks });
+  await mockApi(guarded.context, { user: opts.user, noBlocks: opts.noBlocks, noDecks: opts.noDecks });
   await guarded.page.goto(base + opts.path);
   await guarded.page.locator(opts.ready).first().waitFor({ timeout: 15_000 });
   await opts.act?.(guarded);
@@ -143,9 +149,12 @@ async function main() {
       },
     });
     await shoot(browser, app.url, 'blocks-empty', { path: '/blocks', user: users.reviewer, noBlocks: true, ready: 'text=No blocks yet' });
-    await shoot(browser, app.url, 'block', { path: `/blocks/${blocks[1].id}`, user: users.designer, ready: 'text=No runs of this block yet' });
-    await shoot(browser, app.url, 'run-empty', { path: '/runs/7f3a0000-0000-4000-8000-00000000abcd', user: users.reviewer, ready: 'text=Run details are not available here yet' });
-    await shoot(browser, app.url, 'decks-empty', { path: '/decks', user: users.methodology, ready: 'text=No rule decks listed yet' });
+    await shoot(browser, app.url, 'block', { path: `/blocks/${blocks[1].id}`, user: users.designer, ready: 'table' });
+    await shoot(browser, app.url, 'block-empty', { path: `/blocks/${blocks[0].id}`, user: users.designer, ready: 'text=No runs of this block yet' });
+    await shoot(browser, app.url, 'run', { path: `/runs/${RUN_ID}`, user: users.reviewer, ready: 'tr[data-finding-id]' });
+    await shoot(browser, app.url, 'run-finding', { path: `/runs/${RUN_ID}?tab=findings&finding=${FINDINGS[0].id}`, user: users.reviewer, width: 1440, height: 960, ready: '.monaco-editor .view-lines' });
+    await shoot(browser, app.url, 'decks', { path: '/decks', user: users.methodology, ready: 'text=Larkspur core deck' });
+    await shoot(browser, app.url, 'decks-empty', { path: '/decks', user: users.methodology, noDecks: true, ready: 'text=No rule decks listed yet' });
     await shoot(browser, app.url, 'admin-users', { path: '/admin/users', user: users.admin, ready: 'table' });
     await shoot(browser, app.url, 'admin-invite', {
       path: '/admin/users',
