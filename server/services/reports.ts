@@ -17,7 +17,7 @@ import type { AppContext } from '../context';
 import { conflict, notFound } from '../errors';
 import { FINDING_COLUMNS, findingView, type FindingRowData } from './runs-findings';
 import { waiversByIds } from './waivers';
-import { formatQuantity, statusSql, waiverClock, waiverJoin, waiverReplacements, type FindingStatus } from './waivers-status';
+import { formatQuantity, waiverClock, waiverJoin, waiverMatch, type FindingStatus, type WaiverMatch } from './waivers-status';
 
 type Ctx = Pick<AppContext, 'sequelize'>;
 
@@ -67,17 +67,15 @@ async function finishedRun(ctx: Ctx, teamId: string, runId: string): Promise<Run
   return run;
 }
 
-const match = (teamId: string, run: RunHead) => waiverReplacements({ teamId, blockId: run.block_id, now: waiverClock.now() });
-
-async function findingsOf(ctx: Ctx, teamId: string, run: RunHead, options: { status?: FindingStatus; severity?: Severity; limit?: number } = {}): Promise<StoredFinding[]> {
+async function findingsOf(ctx: Ctx, match: WaiverMatch, run: RunHead, options: { status?: FindingStatus; severity?: Severity; limit?: number } = {}): Promise<StoredFinding[]> {
   const where = ['f.run_id = :runId'];
-  if (options.status) where.push(`${statusSql} = :status`);
+  if (options.status) where.push(`${match.statusSql} = :status`);
   if (options.severity) where.push('f.severity = :severity');
   const rows = await ctx.sequelize.query<FindingRowData>(
     `select ${FINDING_COLUMNS} from findings f ${waiverJoin} where ${where.join(' and ')}
      order by f.severity_rank, f.file, f.line, f."column", f.id ${options.limit ? 'limit :limit' : ''}`,
     {
-      replacements: { runId: run.id, status: options.status ?? null, severity: options.severity ?? null, limit: options.limit ?? null, ...match(teamId, run) },
+      replacements: { runId: run.id, status: options.status ?? null, severity: options.severity ?? null, limit: options.limit ?? null, ...match.replacements },
       type: QueryTypes.SELECT,
     },
   );
@@ -87,11 +85,12 @@ async function findingsOf(ctx: Ctx, teamId: string, run: RunHead, options: { sta
 const zeroCounts = (): StatusCounts => Object.fromEntries(FINDING_STATUSES.map((s) => [s, 0])) as StatusCounts;
 
 /** Findings of a run by severity and status, as the one status decision makes them. */
-export async function statusCounts(ctx: Ctx, teamId: string, runId: string, blockId: string): Promise<ReportCounts> {
+export async function statusCounts(ctx: Ctx, teamId: string, runId: string, blockId: string, known?: WaiverMatch): Promise<ReportCounts> {
+  const match = known ?? (await waiverMatch(ctx, { teamId, blockId }));
   const rows = await ctx.sequelize.query<{ severity: Severity; status: FindingStatus; n: number }>(
-    `select f.severity, ${statusSql} as status, cast(count(*) as integer) as n from findings f ${waiverJoin}
+    `select f.severity, ${match.statusSql} as status, cast(count(*) as integer) as n from findings f
      where f.run_id = :runId group by 1, 2`,
-    { replacements: { runId, ...waiverReplacements({ teamId, blockId, now: waiverClock.now() }) }, type: QueryTypes.SELECT },
+    { replacements: { runId, ...match.replacements }, type: QueryTypes.SELECT },
   );
   const counts: ReportCounts = { bySeverity: { error: zeroCounts(), warning: zeroCounts(), info: zeroCounts() }, total: zeroCounts() };
   for (const r of rows) {
@@ -102,11 +101,14 @@ export async function statusCounts(ctx: Ctx, teamId: string, runId: string, bloc
 }
 
 /** The waivers that decide statuses of this run's findings, with how many each decides and to what. */
-async function waiversOfRun(ctx: Ctx, teamId: string, run: RunHead) {
+async function waiversOfRun(ctx: Ctx, teamId: string, match: WaiverMatch, run: RunHead) {
+  if (!match.any) return [];
   const rows = await ctx.sequelize.query<{ id: string; status: FindingStatus; n: number }>(
-    `select ws.id, ${statusSql} as status, cast(count(*) as integer) as n from findings f ${waiverJoin}
-     where f.run_id = :runId and ws.id is not null group by 1, 2 order by 1, 2`,
-    { replacements: { runId: run.id, ...match(teamId, run) }, type: QueryTypes.SELECT },
+    `select ws.id, case when ws.outcome in ('waived', 'waiver-requested') then ws.outcome else 'waiver-lapsed' end as status,
+       cast(count(*) as integer) as n
+     from findings f ${waiverJoin}
+     where f.run_id = :runId and f.rule_id in (:wsRules) and ws.id is not null group by 1, 2 order by 1, 2`,
+    { replacements: { runId: run.id, ...match.replacements }, type: QueryTypes.SELECT },
   );
   const views = await waiversByIds(ctx, teamId, [...new Set(rows.map((r) => r.id))]);
   const rank: Record<FindingStatus, number> = { waived: 0, 'waiver-requested': 1, 'waiver-lapsed': 2, open: 3 };
@@ -122,11 +124,12 @@ async function waiversOfRun(ctx: Ctx, teamId: string, run: RunHead) {
 
 export async function reviewReport(ctx: Ctx, teamId: string, runId: string): Promise<ReviewReport> {
   const run = await finishedRun(ctx, teamId, runId);
+  const match = await waiverMatch(ctx, { teamId, blockId: run.block_id });
   const [counts, openErrors, lapsed, waivers, files] = await Promise.all([
-    statusCounts(ctx, teamId, run.id, run.block_id),
-    findingsOf(ctx, teamId, run, { status: 'open', severity: 'error', limit: REPORT_LIST_LIMIT }),
-    findingsOf(ctx, teamId, run, { status: 'waiver-lapsed', limit: REPORT_LIST_LIMIT }),
-    waiversOfRun(ctx, teamId, run),
+    statusCounts(ctx, teamId, run.id, run.block_id, match),
+    findingsOf(ctx, match, run, { status: 'open', severity: 'error', limit: REPORT_LIST_LIMIT }),
+    findingsOf(ctx, match, run, { status: 'waiver-lapsed', limit: REPORT_LIST_LIMIT }),
+    waiversOfRun(ctx, teamId, match, run),
     ctx.sequelize.query<{ path: string; sha256: string }>('select path, sha256 from netlist_files where netlist_id = :id order by path', {
       replacements: { id: run.netlist_id },
       type: QueryTypes.SELECT,
@@ -183,7 +186,7 @@ export const CSV_COLUMNS = [
 /** Every finding of the run, one record each, CRLF line ends (RFC 4180); the review caution is the last record. */
 export async function findingsCsv(ctx: Ctx, teamId: string, runId: string): Promise<string> {
   const run = await finishedRun(ctx, teamId, runId);
-  const findings = await findingsOf(ctx, teamId, run);
+  const findings = await findingsOf(ctx, await waiverMatch(ctx, { teamId, blockId: run.block_id }), run);
   const lines = [CSV_COLUMNS.join(',')];
   for (const f of findings) {
     lines.push(
@@ -245,7 +248,7 @@ function sarifWaiver(f: StoredFinding, waivers: Map<string, WaiverView>): SarifW
 /** The run as a SARIF 2.1.0 log: paths as uploaded, waivers as external suppressions. */
 export async function runSarif(ctx: Ctx, teamId: string, runId: string): Promise<SarifLog> {
   const run = await finishedRun(ctx, teamId, runId);
-  const findings = await findingsOf(ctx, teamId, run);
+  const findings = await findingsOf(ctx, await waiverMatch(ctx, { teamId, blockId: run.block_id }), run);
   const ids = [...new Set(findings.flatMap((f) => (f.waiver ? [f.waiver.id] : [])))];
   const waivers = new Map((await waiversByIds(ctx, teamId, ids)).map((w) => [w.id, w]));
   return buildSarif({

@@ -8,7 +8,7 @@ import type { Quantity, FindingPlot } from '../../shared/findings';
 import type { Severity } from '../../shared/deck';
 import type { AppContext } from '../context';
 import { conflict, HttpError, notFound } from '../errors';
-import { findingStatus, statusSql, waiverClock, waiverColumns, waiverJoin, waiverReplacements, type WaiverColumns } from './waivers-status';
+import { findingStatus, waiverColumns, waiverJoin, waiverMatch, type WaiverColumns } from './waivers-status';
 
 type Ctx = Pick<AppContext, 'sequelize'>;
 
@@ -30,9 +30,6 @@ export interface FindingRowData extends WaiverColumns {
   corner: string | null;
   plot: FindingPlot | null;
 }
-
-/** A run's findings joined to the waivers that decide their status (server/services/waivers-status.ts). */
-const matchOf = (teamId: string, blockId: string) => waiverReplacements({ teamId, blockId, now: waiverClock.now() });
 
 export const FINDING_COLUMNS = `f.id, f.rule_id, f.severity, f.message, f.file, f.line, f."column", f.cell, f.nets, f.devices, f.instances,
   f.measured, f."limit", f.fingerprint, f.corner, f.plot, ${waiverColumns}`;
@@ -87,8 +84,10 @@ const likePattern = (q: string) => `%${q.toLowerCase().replace(/[\\%_]/g, (c) =>
 
 export async function listFindings(ctx: Ctx, teamId: string, runId: string, query: FindingsQuery) {
   const run = await runOfTeam(ctx, teamId, runId);
+  // Statuses come from the team's waivers (server/services/waivers-status.ts).
+  const match = await waiverMatch(ctx, { teamId, blockId: run.block_id });
   const where = ['f.run_id = :runId'];
-  const replacements: Record<string, unknown> = { runId, limit: query.pageSize, offset: (query.page - 1) * query.pageSize, ...matchOf(teamId, run.block_id) };
+  const replacements: Record<string, unknown> = { runId, limit: query.pageSize, offset: (query.page - 1) * query.pageSize, ...match.replacements };
   if (query.rule?.length) {
     where.push('f.rule_id in (:rules)');
     replacements.rules = query.rule;
@@ -110,12 +109,10 @@ export async function listFindings(ctx: Ctx, teamId: string, runId: string, quer
     replacements.file = query.file;
   }
   if (query.status) {
-    where.push(`${statusSql} = :status`);
+    where.push(`${match.statusSql} = :status`);
     replacements.status = query.status;
   }
   const clause = where.join(' and ');
-  // The waiver join only where the status filters; otherwise the page's ids come from the sort's index alone.
-  const from = query.status ? `findings f ${waiverJoin}` : 'findings f';
   const dir = query.order === 'desc' ? 'desc' : 'asc';
   const order = (alias: string) => [...ORDER[query.sort], 'f.id'].map((c) => `${c.replace(/^f\./, `${alias}.`)} ${dir}`).join(', ');
 
@@ -128,11 +125,11 @@ export async function listFindings(ctx: Ctx, teamId: string, runId: string, quer
   // The page's ids first, from the sort's index alone; only those 50 rows are then read whole.
   const [rows, [{ total }]] = await Promise.all([
     ctx.sequelize.query<FindingRowData>(
-      `with page as (select f.id from ${from} where ${clause} order by ${order('f')} limit :limit offset :offset)
+      `with page as (select f.id from findings f where ${clause} order by ${order('f')} limit :limit offset :offset)
        select ${FINDING_COLUMNS} from page join findings f on f.id = page.id ${waiverJoin} order by ${order('f')}`,
       { replacements, type: QueryTypes.SELECT },
     ),
-    countedTotal ?? ctx.sequelize.query<{ total: number }>(`select cast(count(*) as integer) as total from ${from} where ${clause}`, { replacements, type: QueryTypes.SELECT }),
+    countedTotal ?? ctx.sequelize.query<{ total: number }>(`select cast(count(*) as integer) as total from findings f where ${clause}`, { replacements, type: QueryTypes.SELECT }),
   ]);
   return { items: rows.map(findingView), total, page: query.page, pageSize: query.pageSize };
 }
@@ -141,7 +138,7 @@ export async function listFindings(ctx: Ctx, teamId: string, runId: string, quer
 export async function getFinding(ctx: Ctx, teamId: string, runId: string, findingId: number): Promise<StoredFinding> {
   const run = await runOfTeam(ctx, teamId, runId);
   const rows = await ctx.sequelize.query<FindingRowData>(`select ${FINDING_COLUMNS} from findings f ${waiverJoin} where f.run_id = :runId and f.id = :findingId`, {
-    replacements: { runId, findingId, ...matchOf(teamId, run.block_id) },
+    replacements: { runId, findingId, ...(await waiverMatch(ctx, { teamId, blockId: run.block_id })).replacements },
     type: QueryTypes.SELECT,
   });
   if (!rows[0]) throw notFound('Finding');
@@ -163,7 +160,8 @@ export async function compareRuns(
   if (head.block_id !== base.block_id) throw new HttpError(400, 'validation', 'Only two runs of the same block can be compared.', [{ path: 'params.baseId', message: 'another block' }]);
   for (const r of [head, base]) if (r.state !== 'succeeded') throw conflict(`Run ${r.id} has not succeeded (it is ${r.state}); only finished checks can be compared.`);
 
-  const replacements: Record<string, unknown> = { headId, baseId, limit: query.pageSize, offset: (query.page - 1) * query.pageSize, ...matchOf(teamId, head.block_id) };
+  const match = await waiverMatch(ctx, { teamId, blockId: head.block_id });
+  const replacements: Record<string, unknown> = { headId, baseId, limit: query.pageSize, offset: (query.page - 1) * query.pageSize, ...match.replacements };
   const [counts] = await ctx.sequelize.query<{ new: number; fixed: number; persisting: number }>(
     `select
        (select cast(count(*) as integer) from findings f where f.run_id = :headId and not ${IN_BASE}) as new,

@@ -18,34 +18,23 @@
 // ones are ignored. When several apply, a covering one wins over a request, and a
 // request over a lapse.
 
+import { QueryTypes } from 'sequelize';
 import type { FindingWaiver, LapseReason, WaiverBound, WaiverScope, WaiverState } from '../../shared/api/waivers';
 import type { FINDING_STATUSES } from '../../shared/api/runs';
 import type { Quantity } from '../../shared/findings';
 import { formatSi } from '../../rules/units';
+import type { AppContext } from '../context';
 
 export type FindingStatus = (typeof FINDING_STATUSES)[number];
 
 /** The clock expiry is judged by (and the expiry sweep runs on); tests set `now` to move time. */
 export const waiverClock = { now: (): Date => new Date() };
 
-export interface WaiverMatchScope {
-  teamId: string;
-  blockId: string;
-  now: Date;
-}
-
-/** Replacements the join needs, under names no other query part uses. */
-export function waiverReplacements(scope: WaiverMatchScope): Record<string, unknown> {
-  return { wsTeamId: scope.teamId, wsBlockId: scope.blockId, wsNow: scope.now };
-}
-
 const MEASURED = `(f.measured->>'value')::float8`;
 const BOUND = `(w.bound->>'value')::float8`;
 
-/** `left join lateral … ws`: at most one waiver per finding, the one that decides its status. */
-export const waiverJoin = `left join lateral (
-    select w.id, w.state, w.scope, w.expires_at, w.bound, w.devices, w.nets, m.outcome
-    from waivers w
+/** Every live waiver that names the finding's rule and matches it, best first (shared by the join and the scalar below). */
+const CANDIDATES = `from waivers w
     cross join lateral (select case
         when w.state = 'requested' then 'waiver-requested'
         when w.fingerprint is not null and w.fingerprint <> f.fingerprint then 'changed'
@@ -62,11 +51,37 @@ export const waiverJoin = `left join lateral (
         or (w.state = 'approved' and w.fingerprint is not null and w.cell = f.cell and (w.devices && f.devices or w.nets && f.nets)
           and not exists (select 1 from findings g where g.run_id = f.run_id and g.fingerprint = w.fingerprint)))
     order by case m.outcome when 'waived' then 0 when 'waiver-requested' then 1 else 2 end, w.decided_at desc nulls last, w.created_at desc
-    limit 1
-  ) ws on true`;
+    limit 1`;
 
-/** The status as SQL, over `waiverJoin`: for filters and counts. */
-export const statusSql = `(case when ws.outcome is null then 'open' when ws.outcome in ('waived', 'waiver-requested') then ws.outcome else 'waiver-lapsed' end)`;
+/** `left join lateral … ws`: the one waiver that decides each finding's status, with what `findingStatus` reads. */
+export const waiverJoin = `left join lateral (select w.id, w.state, w.scope, w.expires_at, w.bound, w.devices, w.nets, m.outcome ${CANDIDATES}) ws on true`;
+
+export interface WaiverMatch {
+  /** Replacements of `waiverJoin` and `statusSql`, under names no other query part uses. */
+  replacements: Record<string, unknown>;
+  /**
+   * The status as an SQL expression over findings `f`, for filters and counts over many rows:
+   * findings of rules no live waiver of the team names are open without looking further.
+   */
+  statusSql: string;
+  /** Whether any live waiver of the team could match (else every finding is open). */
+  any: boolean;
+}
+
+/** Read which rules the team's live waivers name, once per query, so the rest of a run's findings cost nothing. */
+export async function waiverMatch(ctx: Pick<AppContext, 'sequelize'>, scope: { teamId: string; blockId: string; now?: Date }): Promise<WaiverMatch> {
+  const rules = await ctx.sequelize.query<{ rule_id: string }>(
+    `select distinct rule_id from waivers where team_id = :teamId and state in ('approved', 'requested')`,
+    { replacements: { teamId: scope.teamId }, type: QueryTypes.SELECT },
+  );
+  const wsRules = rules.map((r) => r.rule_id);
+  const scalar = `coalesce((select case when m.outcome in ('waived', 'waiver-requested') then m.outcome else 'waiver-lapsed' end ${CANDIDATES}), 'open')`;
+  return {
+    replacements: { wsTeamId: scope.teamId, wsBlockId: scope.blockId, wsNow: scope.now ?? waiverClock.now(), wsRules: wsRules.length ? wsRules : [''] },
+    statusSql: wsRules.length ? `(case when f.rule_id in (:wsRules) then ${scalar} else 'open' end)` : `'open'`,
+    any: wsRules.length > 0,
+  };
+}
 
 /** Columns to select beside the finding's own for `findingStatus`. */
 export const waiverColumns = `ws.id as ws_id, ws.state as ws_state, ws.scope as ws_scope, ws.outcome as ws_outcome, ws.expires_at as ws_expires_at,
