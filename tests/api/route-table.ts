@@ -155,6 +155,12 @@ export const ROUTES: RouteCase[] = [
   { method: 'post', path: async (fx) => `/api/waivers/${(await makeWaiver(fx, 'requested')).id}/reject`, permission: 'waiver.decide', body: () => ({ comment: 'route table' }) },
   { method: 'post', path: async (fx) => `/api/waivers/${(await makeWaiver(fx, 'approved')).id}/revoke`, permission: 'waiver.revoke', body: () => ({ reason: 'route table' }) },
 
+  // A finished run's hand-off: review report (JSON, PDF), findings CSV, SARIF.
+  { method: 'get', path: async (fx) => `/api/runs/${(await makeRunWithFinding(fx)).run.id}/report`, permission: 'design.read' },
+  { method: 'get', path: async (fx) => `/api/runs/${(await makeRunWithFinding(fx)).run.id}/report.pdf`, permission: 'design.read' },
+  { method: 'get', path: async (fx) => `/api/runs/${(await makeRunWithFinding(fx)).run.id}/findings.csv`, permission: 'design.read' },
+  { method: 'get', path: async (fx) => `/api/runs/${(await makeRunWithFinding(fx)).run.id}/sarif`, permission: 'design.read' },
+
   // Personal API tokens. POST /api/tokens/:id/revoke takes the caller's own token: tried by role in tokens.test.ts.
   { method: 'get', path: '/api/tokens', permission: 'token.manage' },
   { method: 'post', path: '/api/tokens', permission: 'token.manage', body: () => ({ name: unique('token'), scope: 'read' }) },
