@@ -12,7 +12,7 @@ import type { Finding, CheckSummary } from '../shared/findings';
 import { fingerprint } from './fingerprint';
 import { ruleRegistry } from './registry';
 import type { CellContext, PortSignal, RawFinding, RuleModule } from './types';
-import { cellIndex, localRails } from './recognition/context';
+import { adoptChildStages, cellIndex, localRails } from './recognition/context';
 import { primeClockHint, timingOf, timingSignature } from './recognition/timing';
 
 export { localRails };
@@ -92,6 +92,7 @@ export function checkDesign(design: Design, deck: Deck, options: CheckOptions = 
         },
       };
       // Clock tracing comes first: its hint decides how footless dynamic stages are classified, for every rule.
+      adoptChildStages(ctx, context.rails.length ? context.rails : cell.ports.map(() => undefined));
       primeClockHint(ctx);
       const timing = timingOf(ctx);
       // Children inherit what this context makes of the nets they are tied to: rails and timings.

@@ -116,14 +116,36 @@ export function makeContext(design: Design, deck: Deck, cell: Cell, rails: (Rail
 export function childContext(design: Design, deck: Deck, cellKey: string, portRails: readonly (RailKind | undefined)[]): CellContext | null {
   const cell = design.cells.get(cellKey);
   if (!cell) return null;
-  return designMemo(design, deck, `child|${cellKey}|${railSignature(portRails)}`, () => {
+  return designMemo(design, deck, childKey(cellKey, portRails), () => {
     const base = designMemo(design, deck, `local-rails|${cellKey}`, () => localRails(design, cell, deck));
     const rails = base.slice();
     cell.ports.forEach((net, i) => {
       if (rails[net] === undefined && portRails[i] !== undefined) rails[net] = portRails[i];
     });
+    designMemo(design, deck, 'child-contexts-seen', () => new Set<string>()).add(childKey(cellKey, portRails));
     return makeContext(design, deck, cell, rails);
   });
+}
+
+function childKey(cellKey: string, portRails: readonly (RailKind | undefined)[]): string {
+  return `child|${cellKey}|${railSignature(portRails)}`;
+}
+
+/** The memo key under which rules/stages/index.ts keeps a context's stages (`stagesOf`). */
+export const STAGES_MEMO_KEY = 'stages';
+
+/**
+ * Lets an engine context start from the stages a look from its parent already extracted for the same cell under the
+ * same rails (a big flat cell under a small top level is then extracted once, not twice). The engine context gets its
+ * own list, so that what clock tracing recognises in it (stages it replaces) stays its own.
+ */
+export function adoptChildStages(ctx: CellContext, portRails: readonly (RailKind | undefined)[]): void {
+  const store = designMemo(ctx.design, ctx.deck, 'child-contexts-seen', () => new Set<string>());
+  const key = childKey(ctx.cell.key, portRails);
+  if (!store.has(key)) return;
+  const donor = childContext(ctx.design, ctx.deck, ctx.cell.key, portRails)!;
+  const base = stagesOf(donor);
+  ctx.memo<CellStages>(STAGES_MEMO_KEY, () => ({ ...base, stages: base.stages.slice() }));
 }
 
 /** Rails of an instance's pins as its parent sees them. */
@@ -184,8 +206,9 @@ class PairBuffer {
   }
 }
 
-export interface CellIndex {
-  stages: CellStages;
+/** Devices, pins and rails of a context by net, without stage extraction (what a look into a child needs). */
+export interface NetIndex {
+  /** Nets merged by zero-ohm ties: net → representative (the smallest id of its group, as stage extraction has it). */
   alias: Int32Array;
   railOf(net: number): RailKind | undefined;
   /** MOS devices with a channel terminal (drain or source) on the net; a device appears twice when both are. */
@@ -194,25 +217,48 @@ export interface CellIndex {
   gates: NetLists;
   /** Other devices (`cell.others` index) with a terminal on the net. */
   others: NetLists;
-  /** Instance pins on the net, encoded as instance × 4096 + pin … see `pinOf`. Stored as pairs in two lists. */
+  /** Instance pins on the net: the instance (`cell.instances` index) and, at the same position, the pin. */
   pinInstances: NetLists;
   pinPorts: NetLists;
+  /** Whether the net is a port of the cell. */
+  isPort: Uint8Array;
+}
+
+export interface CellIndex extends NetIndex {
+  stages: CellStages;
   /** Stages (driving or pass) with the net among their gate inputs. */
   inputOf: NetLists;
   /** Pass stages with the net among their terminals. */
   passAt: NetLists;
   /** Stage that owns each MOS device (−1 when none: both ends on rails). */
   stageOfMos: Int32Array;
-  /** Whether the net is a port of the cell. */
-  isPort: Uint8Array;
 }
 
-/** Nets, devices, pins and stages of a context, indexed by net. */
-export function cellIndex(ctx: CellContext): CellIndex {
-  return ctx.memo('recognition.index', () => {
-    const stages = stagesOf(ctx);
+/** Representatives of nets joined by zero-ohm resistors: the smallest id of each group. */
+function zeroOhmAlias(cell: Cell): Int32Array {
+  const n = cell.nets.length;
+  const parent = new Int32Array(n);
+  for (let i = 0; i < n; i++) parent[i] = i;
+  const find = (x: number): number => {
+    while (parent[x] !== x) x = parent[x] = parent[parent[x]];
+    return x;
+  };
+  for (const o of cell.others) {
+    if (o.kind !== 'res' || o.value !== 0) continue;
+    const a = find(o.a);
+    const b = find(o.b);
+    if (a !== b) parent[Math.max(a, b)] = Math.min(a, b);
+  }
+  const alias = new Int32Array(n);
+  for (let i = 0; i < n; i++) alias[i] = find(i);
+  return alias;
+}
+
+/** Nets, devices and pins of a context, indexed by net, without extracting its stages. */
+export function netIndex(ctx: CellContext): NetIndex {
+  return ctx.memo('recognition.net-index', () => {
     const cell = ctx.cell;
-    const alias = stages.alias;
+    const alias = zeroOhmAlias(cell);
     const n = cell.nets.length;
     const railRoot: (RailKind | undefined)[] = new Array(n);
     for (let i = 0; i < n; i++) if (ctx.rails[i]) railRoot[alias[i]] = ctx.rails[i];
@@ -226,8 +272,7 @@ export function cellIndex(ctx: CellContext): CellIndex {
     }
     const others = new PairBuffer(cell.others.length * 2);
     for (let i = 0; i < cell.others.length; i++) {
-      const o = cell.others[i];
-      const [a, b] = terminalsOf(o);
+      const [a, b] = terminalsOf(cell.others[i]);
       others.push(alias[a], i);
       if (alias[b] !== alias[a]) others.push(alias[b], i);
     }
@@ -239,18 +284,9 @@ export function cellIndex(ctx: CellContext): CellIndex {
         pinPorts.push(alias[p], j);
       });
     });
-    const inputOf = new PairBuffer(stages.stages.length * 2);
-    const passAt = new PairBuffer(stages.stages.length);
-    const stageOfMos = new Int32Array(cell.mosfets.length).fill(-1);
-    for (const s of stages.stages) {
-      for (const x of s.inputs) inputOf.push(x, s.id);
-      if (s.kind === 'pass') for (const t of s.terminals) passAt.push(t, s.id);
-      for (const e of s.elements) if (e.kind === 'mos') stageOfMos[e.index] = s.id;
-    }
     const isPort = new Uint8Array(n);
     for (const p of cell.ports) isPort[alias[p]] = 1;
     return {
-      stages,
       alias,
       railOf: (net: number) => (net < 0 ? (net === -1 ? 'power' : 'ground') : railRoot[alias[net]]),
       channel: channel.lists(n),
@@ -258,11 +294,26 @@ export function cellIndex(ctx: CellContext): CellIndex {
       others: others.lists(n),
       pinInstances: pinInstances.lists(n),
       pinPorts: pinPorts.lists(n),
-      inputOf: inputOf.lists(n),
-      passAt: passAt.lists(n),
-      stageOfMos,
       isPort,
-    } satisfies CellIndex;
+    } satisfies NetIndex;
+  });
+}
+
+/** Nets, devices, pins and stages of a context, indexed by net. */
+export function cellIndex(ctx: CellContext): CellIndex {
+  return ctx.memo('recognition.index', () => {
+    const stages = stagesOf(ctx);
+    const light = netIndex(ctx);
+    const n = ctx.cell.nets.length;
+    const inputOf = new PairBuffer(stages.stages.length * 2);
+    const passAt = new PairBuffer(stages.stages.length);
+    const stageOfMos = new Int32Array(ctx.cell.mosfets.length).fill(-1);
+    for (const s of stages.stages) {
+      for (const x of s.inputs) inputOf.push(x, s.id);
+      if (s.kind === 'pass') for (const t of s.terminals) passAt.push(t, s.id);
+      for (const e of s.elements) if (e.kind === 'mos') stageOfMos[e.index] = s.id;
+    }
+    return { ...light, stages, inputOf: inputOf.lists(n), passAt: passAt.lists(n), stageOfMos } satisfies CellIndex;
   });
 }
 

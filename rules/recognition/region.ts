@@ -17,7 +17,7 @@
 
 import type { Capacitor, Cell, Mosfet, RailKind, Resistor, SourceLoc } from '../../grammar/design';
 import type { CellContext } from '../types';
-import { cellIndex, childContext, designMemo, makeContext, pinRails, RESTORING_KINDS, terminalsOf, type CellIndex } from './context';
+import { cellIndex, childContext, designMemo, makeContext, netIndex, pinRails, RESTORING_KINDS, terminalsOf, type CellIndex } from './context';
 import { primeClockHint, timingOf, type Timing } from './timing';
 
 /** Past this many devices a region is not built (a power grid or a global net, not a bit line). */
@@ -52,7 +52,7 @@ export function prechargePorts(ctx: CellContext, instance: number): Uint8Array {
   const child = childContext(ctx.design, ctx.deck, inst.cell, pinRails(ctx, inst.pins));
   if (!child) return new Uint8Array(inst.pins.length);
   return child.memo('recognition.precharge-ports', () => {
-    const index = cellIndex(child);
+    const index = netIndex(child);
     const cell = child.cell;
     const out = new Uint8Array(cell.ports.length);
     cell.ports.forEach((p, j) => {
@@ -83,7 +83,7 @@ export function channelPorts(ctx: CellContext, instance: number): Uint8Array {
     if (!cell) return new Uint8Array(inst.pins.length);
     const child = childContext(ctx.design, ctx.deck, inst.cell, []);
     if (!child) return new Uint8Array(inst.pins.length);
-    const index = cellIndex(child);
+    const index = netIndex(child);
     const out = new Uint8Array(cell.ports.length);
     cell.ports.forEach((p, j) => {
       const net = index.alias[p];
@@ -252,7 +252,6 @@ function build(ctx: CellContext, start: number): Region | null {
   }
   if (tooLarge || paths.size === 0) return null;
 
-  // Capacitors on the nets of stack nodes and gates of the copied devices (coupling onto evaluation inputs).
   const cell = ctx.cell;
   const loc: SourceLoc = cell.loc;
   const ports: number[] = [startId];

@@ -1,7 +1,7 @@
 // Pieces the dynamic-node rules share: names, descriptions and plots of a node.
 
 import type { z } from 'zod';
-import type { budgetPlotSchema, Quantity } from '../../shared/findings';
+import type { budgetPlotSchema } from '../../shared/findings';
 import { formatSi } from '../units';
 import type { CornerBudget } from './budgets';
 import { elementName, type DynamicNode } from './dynamic';
@@ -11,10 +11,6 @@ export type BudgetBar = z.infer<typeof budgetPlotSchema>['bars'][number];
 
 export function budgetPlot(bars: BudgetBar[]): z.infer<typeof budgetPlotSchema> {
   return { kind: 'budget', bars };
-}
-
-export function quantity(value: number, unit: string): Quantity {
-  return { value, unit };
 }
 
 export const v = (x: number) => formatSi(x, 'V');

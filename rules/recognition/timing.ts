@@ -23,7 +23,6 @@
 // gate no trace reaches still defines a phase of its own (an enable), so that its
 // node and its footer can be compared with each other.
 
-import type { Cell } from '../../grammar/design';
 import { classifyStage, stageLogic, outputValue, STAGE_CLOCK_HINT_KEY, type ClockHint, type DynamicInfo, type Stage } from '../stages';
 import type { StageLogic } from '../stages/classify';
 import type { CellContext } from '../types';
@@ -155,10 +154,9 @@ export function timingOf(ctx: CellContext): TimingResult {
       if (root) seeds.push({ net, timing: { phase: root.phase, low: root.inverted ? 1 : 0, high: root.inverted ? 0 : 1, kind: 'clock' }, named: true });
     }
     const result = propagate(ctx, index, seeds, false);
+    // Copies replace the refined stages in this context's own list (another context may share the originals).
     for (const id of result.refined) {
-      const stage = index.stages.stages[id];
-      stage.kind = 'dynamic';
-      stage.dynamic = result.dynamic.get(id)!;
+      index.stages.stages[id] = { ...index.stages.stages[id], kind: 'dynamic', dynamic: result.dynamic.get(id)! };
     }
     return result;
   });
@@ -462,9 +460,4 @@ export function drivenFromNode(index: CellIndex, net: number, node: number): boo
   const d = index.stages.driverOf.get(net);
   if (d === undefined) return false;
   return index.stages.stages[d].inputs.includes(node);
-}
-
-/** Names of nets for messages. */
-export function netName(cell: Cell, net: number): string {
-  return cell.nets[net] ?? `#${net}`;
 }
