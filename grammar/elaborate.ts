@@ -665,7 +665,11 @@ class Elaborator {
     if (known) return known;
     def.defaultBinding ??= this.bind(def, null);
     if (def.variants.size >= LIMITS.variantsPerCell || this.variantCount >= LIMITS.variants) {
-      if (at) this.reportAt('error', 'too-many-variants', at, `${def.name} is instantiated with more than ${def.variants.size} distinct parameter values; this instance is left out`, 'fewer distinct parameter values, or parameters that do not change the devices');
+      const why =
+        def.variants.size >= LIMITS.variantsPerCell
+          ? `${def.name} already has ${LIMITS.variantsPerCell} variants (distinct parameter bindings)`
+          : `the design already has ${LIMITS.variants} cell variants in all`;
+      if (at) this.reportAt('error', 'too-many-variants', at, `${why}; this instance of ${def.name} is left out`, 'fewer distinct parameter values, or parameters that do not change the devices');
       return null;
     }
     this.variantCount++;

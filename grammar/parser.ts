@@ -45,8 +45,6 @@ import { NameTable } from './names';
 import { hashRange, RangeIndex } from './text-hash';
 import { LocationCursor, lineStarts } from './source';
 
-
-
 /** SPICE element letters Keepwell does not read, and what they are. */
 const UNREAD_ELEMENTS: Record<string, string> = {
   l: 'inductor',

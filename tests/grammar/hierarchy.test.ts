@@ -88,19 +88,17 @@ describe('top and roots', () => {
 });
 
 describe('huge hierarchies', () => {
-  it('elaborates 2^60 flattened devices without flattening, quickly', () => {
+  it('elaborates 2^60 flattened devices without flattening', () => {
     // Each level instantiates the one below twice: level k holds 2^k leaf resistors.
     const text = ['* doubling'];
     text.push('.subckt l0 a b', 'R1 a b 1k', '.ends');
     for (let k = 1; k <= 60; k++) text.push(`.subckt l${k} a b`, `X1 a m l${k - 1}`, `X2 m b l${k - 1}`, '.ends');
-    const started = performance.now();
     const d = read(text.join('\n') + '\n');
-    const ms = performance.now() - started;
     expect(d.diagnostics).toEqual([]);
+    // Described once each: 61 cells, not 2^60 devices (speed figures belong to npm run bench).
     expect(d.cells.size).toBe(61);
     // 2^60 is exact in a double.
     expect(flattenedDeviceCount(d)).toBe(2 ** 60);
-    expect(ms).toBeLessThan(5_000); // generous: 61 small cells
   });
 
   it('reads a hierarchy ten thousand levels deep without exhausting the stack', () => {
@@ -126,9 +124,14 @@ describe('huge hierarchies', () => {
     // Each level passes two different values down: the number of distinct bindings doubles per level.
     const text = ['* exponential variants', '.subckt v0 a params: p=0', 'R1 a 0 {p+1}', '.ends'];
     for (let k = 1; k <= 40; k++) text.push(`.subckt v${k} a params: p=0`, `X1 a v${k - 1} p={2*p}`, `X2 a v${k - 1} p={2*p+1}`, '.ends');
-    const started = performance.now();
     const d = read(text.join('\n') + '\n');
-    expect(performance.now() - started).toBeLessThan(20_000);
     expect(codes(d)).toContain('too-many-variants');
+    // Bounded by the reader's documented limits (10 000 variants per definition, 100 000 in all), not 2^40.
+    const perDefinition = new Map<string, number>();
+    for (const c of d.cells.values()) perDefinition.set(c.name, (perDefinition.get(c.name) ?? 0) + 1);
+    expect(Math.max(...perDefinition.values())).toBe(10_000);
+    expect(d.cells.size).toBeLessThanOrEqual(100_000);
+    // Level k has 2^(40-k) distinct bindings until the limits bite: v30 still complete.
+    expect(perDefinition.get('v30')).toBe(1024);
   });
 });

@@ -98,7 +98,7 @@ describe('hostile input', () => {
     );
   });
 
-  it('reads pathological shapes within bounded time', () => {
+  it('reads pathological shapes', () => {
     const cases: [string, string][] = [
       ['empty file', ''],
       ['only blank lines', '\n\n\r\n  \n'],
@@ -114,12 +114,8 @@ describe('hostile input', () => {
       ['only a .ends', '.ends\n'],
       ['deeply nested lib sections', '.lib a\n'.repeat(5000)],
     ];
-    for (const [name, text] of cases) {
-      const started = performance.now();
-      const d = read(text);
-      readsSafely(d);
-      expect(performance.now() - started, name).toBeLessThan(10_000); // generous bound for a loaded machine
-    }
+    // Each must come back (the test's own timeout bounds the time; speed figures belong to npm run bench).
+    for (const [, text] of cases) readsSafely(read(text));
   });
 
   it('grows linearly: four times the input takes about four times as long', () => {
