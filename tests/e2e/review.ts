@@ -14,24 +14,15 @@
 // When no finished demo run has a dynamic-node finding, the journey uploads the invented
 // netlist set of ./review-netlists.ts through the API and waits for its run.
 
-import { spawn, type ChildProcess } from 'node:child_process';
-import crypto from 'node:crypto';
-import net from 'node:net';
 import path from 'node:path';
-import pg from 'pg';
-import { Redis } from 'ioredis';
 import type { Locator, Page } from 'playwright-core';
-import { build } from 'vite';
 import type { RuleCatalogueEntry } from '../../shared/api/decks';
 import type { RunDetail, RunView, StoredFinding } from '../../shared/api/runs';
-import { loadConfig, repoRoot } from '../../server/config';
-import { runMigrations } from '../../server/db/migrate';
-import { initModels } from '../../server/db/models';
-import { createSequelize } from '../../server/db/sequelize';
-import { startServices } from '../../server/dev/services';
-import { DEMO_BLOCKS, DEMO_USERS, seedDemo } from '../../server/seed/demo';
+import { repoRoot } from '../../server/config';
+import { DEMO_BLOCKS, DEMO_USERS } from '../../server/seed/demo';
 import { launchBrowser, openPage, screenshot, type GuardedPage } from '../support/browser';
 import { NETLIST_SET } from './review-netlists';
+import { decoratedLines, startKeepwell } from './support';
 
 const problems: string[] = [];
 function check(ok: boolean, what: string) {
@@ -40,102 +31,6 @@ function check(ok: boolean, what: string) {
   return ok;
 }
 const say = (line: string) => console.log(`review: ${line}`);
-
-// ------------------------------------------------------------------ a Keepwell of its own
-
-function freePort(): Promise<number> {
-  return new Promise((resolve, reject) => {
-    const server = net.createServer();
-    server.once('error', reject);
-    server.listen(0, '127.0.0.1', () => {
-      const { port } = server.address() as net.AddressInfo;
-      server.close(() => resolve(port));
-    });
-  });
-}
-
-async function waitForHealth(url: string, children: ChildProcess[], timeoutMs = 90_000) {
-  const deadline = Date.now() + timeoutMs;
-  while (Date.now() < deadline) {
-    const dead = children.find((c) => c.exitCode !== null);
-    if (dead) throw new Error(`a Keepwell process exited (code ${dead.exitCode})`);
-    try {
-      if ((await fetch(`${url}/api/health`)).ok) return;
-    } catch {
-      // not listening yet
-    }
-    await new Promise((r) => setTimeout(r, 300));
-  }
-  throw new Error(`no answer from ${url}/api/health within ${timeoutMs / 1000} s`);
-}
-
-async function startKeepwell(): Promise<{ base: string; stop: () => Promise<void> }> {
-  const config = loadConfig({ ...process.env, NODE_ENV: 'development' });
-  say('starting PostgreSQL and Redis');
-  await startServices(config);
-
-  const tag = crypto.randomBytes(4).toString('hex');
-  const database = `keepwell_e2e_${tag}`;
-  const admin = new pg.Client({ connectionString: config.databaseUrl });
-  await admin.connect();
-  await admin.query(`create database ${database}`);
-  await admin.end();
-  const databaseUrl = Object.assign(new URL(config.databaseUrl), { pathname: `/${database}` }).toString();
-  const sequelize = createSequelize({ databaseUrl, dbPoolMax: 2 });
-  initModels(sequelize);
-  try {
-    await runMigrations(sequelize, databaseUrl);
-    await seedDemo(sequelize);
-  } finally {
-    await sequelize.close();
-  }
-  say(`database ${database} migrated and seeded`);
-
-  say('building the client');
-  await build({ configFile: path.join(repoRoot, 'vite.config.ts'), logLevel: 'warn' });
-
-  const port = await freePort();
-  const base = `http://127.0.0.1:${port}`;
-  // Redis database 2 and a prefix of its own: neither a developer's server (0) nor the API tests (1) see these keys.
-  const redisUrl = `redis://127.0.0.1:${config.redisPort}/2`;
-  const redisPrefix = `keepwell-e2e-${tag}:`;
-  const env = {
-    ...process.env,
-    NODE_ENV: 'development',
-    DATABASE_URL: databaseUrl,
-    REDIS_URL: redisUrl,
-    KEEPWELL_REDIS_PREFIX: redisPrefix,
-    KEEPWELL_PORT: String(port),
-    PUBLIC_URL: base,
-    SMTP_PORT: String(await freePort()),
-    KEEPWELL_DATA_DIR: path.join(repoRoot, 'test-artifacts', 'review', 'data'),
-    KEEPWELL_LOG_REQUESTS: 'false',
-  };
-  const tsx = path.join(repoRoot, 'node_modules', '.bin', 'tsx');
-  const children = ['server/main.ts', 'server/worker/main.ts'].map((entry) => spawn(tsx, [entry], { cwd: repoRoot, env, stdio: ['ignore', 'inherit', 'inherit'] }));
-  await waitForHealth(base, children);
-  say(`Keepwell at ${base}`);
-
-  return {
-    base,
-    stop: async () => {
-      for (const child of children) if (child.exitCode === null) child.kill('SIGTERM');
-      await Promise.all(children.map((c) => (c.exitCode !== null ? null : new Promise((r) => c.once('exit', r)))));
-      const client = new pg.Client({ connectionString: config.databaseUrl });
-      await client.connect();
-      await client.query(`drop database if exists ${database} with (force)`);
-      await client.end();
-      const redis = new Redis(redisUrl, { maxRetriesPerRequest: 1 });
-      let cursor = '0';
-      do {
-        const [next, keys] = await redis.scan(cursor, 'MATCH', `${redisPrefix}*`, 'COUNT', 500);
-        if (keys.length) await redis.del(...keys);
-        cursor = next;
-      } while (cursor !== '0');
-      redis.disconnect();
-    },
-  };
-}
 
 // ------------------------------------------------------------------ the API, as the signed-in page
 
@@ -188,25 +83,6 @@ async function uploadNetlist(page: Page, base: string, files: { path: string; te
 }
 
 // ------------------------------------------------------------------ reading Monaco's DOM
-
-/**
- * Line numbers of the rendered lines carrying a decoration class, matched by vertical position
- * to the gutter's numbers. (No helper functions inside: tsx would wrap them in a `__name` the
- * page does not have.)
- */
-async function decoratedLines(editor: Locator, className: string): Promise<number[]> {
-  return editor.evaluate((root, cls) => {
-    const numbers = new Map<string, number>();
-    for (const n of root.querySelectorAll('.margin-view-overlays .line-numbers')) {
-      numbers.set((n.closest('.margin-view-overlays > div') as HTMLElement | null)?.style.top ?? '', Number(n.textContent));
-    }
-    const lines: number[] = [];
-    for (const d of root.querySelectorAll(`.view-overlays .${cls}`)) {
-      lines.push(numbers.get((d.closest('.view-overlays > div') as HTMLElement | null)?.style.top ?? '') ?? NaN);
-    }
-    return lines;
-  }, className);
-}
 
 /** The line number the cursor is on, from the gutter's active-line mark. */
 async function cursorLine(editor: Locator): Promise<number> {
@@ -384,8 +260,13 @@ async function journey(base: string) {
     await page.waitForURL((u) => /^\/runs\/[0-9a-f-]{36}$/.test(u.pathname));
     const secondId = new URL(page.url()).pathname.split('/').pop()!;
     await page.locator('[data-state="succeeded"]').first().waitFor({ timeout: 180_000 });
-    check(true, 'the run page followed the submitted run until it finished');
-    const second = await apiGet<RunView>(page, `/api/runs/${secondId}`);
+    // The page may show another finished run first: the API says when this one has finished.
+    let second = await apiGet<RunView>(page, `/api/runs/${secondId}`);
+    for (const deadline = Date.now() + 180_000; second.state !== 'succeeded' && Date.now() < deadline; ) {
+      await page.waitForTimeout(500);
+      second = await apiGet<RunView>(page, `/api/runs/${secondId}`);
+    }
+    check(second.state === 'succeeded', `the run page followed the submitted run until it finished (${second.state})`);
     const compared = await apiGet<{ counts: { new: number; fixed: number; persisting: number } }>(page, `/api/runs/${second.id}/compare/${first.id}?kind=persisting`);
     const firstTotal = (await apiGet<{ total: number }>(page, `/api/runs/${first.id}/findings?pageSize=1`)).total;
     check(compared.counts.new === 0 && compared.counts.fixed === 0 && compared.counts.persisting === firstTotal, `moved lines still match: ${JSON.stringify(compared.counts)} of ${firstTotal} findings`);
@@ -419,7 +300,7 @@ async function journey(base: string) {
 }
 
 const external = process.env.KEEPWELL_URL?.replace(/\/$/, '');
-const own = external ? null : await startKeepwell();
+const own = external ? null : await startKeepwell('review', { log: say });
 try {
   await journey(external ?? own!.base);
 } catch (error) {
