@@ -69,13 +69,13 @@ async function finishedRun(ctx: Ctx, teamId: string, runId: string): Promise<Run
 
 async function findingsOf(ctx: Ctx, match: WaiverMatch, run: RunHead, options: { status?: FindingStatus; severity?: Severity; limit?: number } = {}): Promise<StoredFinding[]> {
   const where = ['f.run_id = :runId'];
-  if (options.status) where.push(`${match.statusSql} = :status`);
+  if (options.status) where.push(match.statusIs(options.status));
   if (options.severity) where.push('f.severity = :severity');
   const rows = await ctx.sequelize.query<FindingRowData>(
     `select ${FINDING_COLUMNS} from findings f ${waiverJoin} where ${where.join(' and ')}
      order by f.severity_rank, f.file, f.line, f."column", f.id ${options.limit ? 'limit :limit' : ''}`,
     {
-      replacements: { runId: run.id, status: options.status ?? null, severity: options.severity ?? null, limit: options.limit ?? null, ...match.replacements },
+      replacements: { runId: run.id, severity: options.severity ?? null, limit: options.limit ?? null, ...match.replacements },
       type: QueryTypes.SELECT,
     },
   );

@@ -109,8 +109,7 @@ export async function listFindings(ctx: Ctx, teamId: string, runId: string, quer
     replacements.file = query.file;
   }
   if (query.status) {
-    where.push(`${match.statusSql} = :status`);
-    replacements.status = query.status;
+    where.push(match.statusIs(query.status));
   }
   const clause = where.join(' and ');
   const dir = query.order === 'desc' ? 'desc' : 'asc';

@@ -2,12 +2,14 @@
 // waiver-requested, or waiver-lapsed (and why). Every reader of findings — the
 // findings list and its filters, one finding, the comparison, the run's counts, the
 // review report, SARIF, `keepwell submit` — joins findings (aliased `f`) to the
-// team's live waivers through `waiverJoin` and reads the outcome with `findingStatus`.
+// team's live waivers through `waiverJoin` and reads the outcome with `findingStatus`,
+// or filters and counts with the `statusSql` of `waiverMatch`, the same decision.
 //
 // A waiver covers a finding of a run of block B when it names the finding's rule and
+// cell (cells compared without regard to case, as SPICE names are) and
 //   - scope `finding`: the finding's fingerprint, and the waiver was asked in block B;
 //   - scope `cell`: the finding's fingerprint, in any block of the team;
-//   - scope `rule-in-cell`: the finding's cell, whatever its fingerprint.
+//   - scope `rule-in-cell`: any fingerprint, in any block of the team.
 // The fingerprint covers the rule, the cell and the finding's device and net names
 // (rules/fingerprint.ts), so a waiver carries over to re-runs of an unchanged circuit.
 // An approved fingerprint waiver whose fingerprint is absent from the run, while the
@@ -44,11 +46,11 @@ const CANDIDATES = `from waivers w
             or (w.bound->>'sense' = 'max' and ${MEASURED} > ${BOUND})
             or (w.bound->>'sense' = 'min' and ${MEASURED} < ${BOUND})) then 'bound'
         else 'waived' end as outcome) m
-    where w.team_id = :wsTeamId and w.rule_id = f.rule_id and w.state in ('approved', 'requested')
+    where w.team_id = :wsTeamId and w.rule_id = f.rule_id and lower(w.cell) = lower(f.cell) and w.state in ('approved', 'requested')
       and (w.scope <> 'finding' or w.block_id = :wsBlockId)
       and (w.fingerprint = f.fingerprint
-        or (w.scope = 'rule-in-cell' and w.cell = f.cell)
-        or (w.state = 'approved' and w.fingerprint is not null and w.cell = f.cell and (w.devices && f.devices or w.nets && f.nets)
+        or w.scope = 'rule-in-cell'
+        or (w.state = 'approved' and w.fingerprint is not null and (w.devices && f.devices or w.nets && f.nets)
           and not exists (select 1 from findings g where g.run_id = f.run_id and g.fingerprint = w.fingerprint)))
     order by case m.outcome when 'waived' then 0 when 'waiver-requested' then 1 else 2 end, w.decided_at desc nulls last, w.created_at desc
     limit 1`;
@@ -64,6 +66,8 @@ export interface WaiverMatch {
    * findings of rules no live waiver of the team names are open without looking further.
    */
   statusSql: string;
+  /** A filter on one status, written so that the rule index narrows the findings a waiver could decide. */
+  statusIs(status: FindingStatus): string;
   /** Whether any live waiver of the team could match (else every finding is open). */
   any: boolean;
 }
@@ -76,7 +80,16 @@ export async function waiverMatch(ctx: Pick<AppContext, 'sequelize'>, scope: { t
   );
   const wsRules = rules.map((r) => r.rule_id);
   const scalar = `coalesce((select case when m.outcome in ('waived', 'waiver-requested') then m.outcome else 'waiver-lapsed' end ${CANDIDATES}), 'open')`;
+  const quoted = (status: FindingStatus) => `'${status.replace(/[^a-z-]/g, '')}'`;
   return {
+    statusIs: (status) =>
+      !wsRules.length
+        ? status === 'open'
+          ? 'true'
+          : 'false'
+        : status === 'open'
+          ? `(f.rule_id not in (:wsRules) or ${scalar} = 'open')`
+          : `(f.rule_id in (:wsRules) and ${scalar} = ${quoted(status)})`,
     replacements: { wsTeamId: scope.teamId, wsBlockId: scope.blockId, wsNow: scope.now ?? waiverClock.now(), wsRules: wsRules.length ? wsRules : [''] },
     statusSql: wsRules.length ? `(case when f.rule_id in (:wsRules) then ${scalar} else 'open' end)` : `'open'`,
     any: wsRules.length > 0,

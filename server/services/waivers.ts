@@ -427,7 +427,7 @@ export async function waiversByIds(ctx: Pick<AppContext, 'sequelize'>, teamId: s
 export async function waiversOfFinding(ctx: Pick<AppContext, 'sequelize'>, teamId: string, runId: string, findingId: number) {
   const f = await findingOfTeam(ctx, teamId, runId, findingId);
   const rows = await ctx.sequelize.query<WaiverRow>(
-    `${WAIVER_SELECT} where w.team_id = :teamId and w.rule_id = :ruleId and w.cell = :cell
+    `${WAIVER_SELECT} where w.team_id = :teamId and w.rule_id = :ruleId and lower(w.cell) = lower(:cell)
        and (w.fingerprint = :fingerprint or w.scope = 'rule-in-cell' or w.devices && cast(:devices as text[]) or w.nets && cast(:nets as text[]))
        and (w.scope <> 'finding' or w.block_id = :blockId)
      order by w.created_at desc`,
