@@ -282,6 +282,13 @@ function propagate(ctx: CellContext, index: CellIndex, seeds: readonly Seed[], s
       }
     }
     if (!STATIC_EVALUATED.has(s.kind) || s.output === null) return;
+    if (s.kind === 'inverter') {
+      // One input, one complementary pair: the complement, kind kept (a clock stays a clock).
+      const flip = (v: Level): Level => (v === UNKNOWN ? UNKNOWN : v === 0 ? 1 : 0);
+      const kind = t.kind === 'dynamic' ? 'domino' : t.kind;
+      assign(s.output, { phase: t.phase, low: flip(t.low), high: flip(t.high), kind });
+      return;
+    }
     assign(s.output, evaluateStatic(s, logicOf(s), timing, t.phase));
   };
 
