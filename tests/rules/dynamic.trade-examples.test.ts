@@ -45,7 +45,47 @@ const cascade = [
   '.ends',
 ].join('\n');
 
+// Structures with clocks or missing pull-ups that are not dynamic nodes (Rabaey et al. §6.2 and §7.2): a latch whose
+// clocked feedback holds its node, a clocked inverter, a transmission-gate multiplexer and its inverter, and a
+// pseudo-n-channel gate, which only the ratioed-logic rule reports.
+const tricky = [
+  '.subckt latch d clk clk_b q vdd vss',
+  'mtn d clk m vss nch w=1u l=0.25u',
+  'mtp d clk_b m vdd pch w=2u l=0.25u',
+  'mqn q m vss vss nch w=1u l=0.25u',
+  'mqp q m vdd vdd pch w=3u l=0.25u',
+  'mf1 vdd q f1 vdd pch w=1u l=0.25u',
+  'mf2 f1 clk m vdd pch w=1u l=0.25u',
+  'mf3 m clk_b f2 vss nch w=0.5u l=0.25u',
+  'mf4 f2 q vss vss nch w=0.5u l=0.25u',
+  '.ends',
+  '.subckt cinv a clk clk_b y vdd vss',
+  'mp1 vdd a s1 vdd pch w=2u l=0.25u',
+  'mp2 s1 clk_b y vdd pch w=2u l=0.25u',
+  'mn2 y clk s2 vss nch w=1u l=0.25u',
+  'mn1 s2 a vss vss nch w=1u l=0.25u',
+  '.ends',
+  '.subckt tgmux a b s s_b y vdd vss',
+  'mna a s_b m vss nch w=1u l=0.25u',
+  'mpa a s m vdd pch w=2u l=0.25u',
+  'mnb b s m vss nch w=1u l=0.25u',
+  'mpb b s_b m vdd pch w=2u l=0.25u',
+  'mon y m vss vss nch w=1u l=0.25u',
+  'mop y m vdd vdd pch w=3u l=0.25u',
+  '.ends',
+  '.subckt pseudo a b y vdd vss',
+  'mpu y vss vdd vdd pch w=0.5u l=0.5u',
+  'mna y a vss vss nch w=2u l=0.25u',
+  'mnb y b vss vss nch w=2u l=0.25u',
+  '.ends',
+].join('\n');
+
 describe('domino examples of the trade, every rule enabled', () => {
+  it('raises nothing on a latch, a clocked inverter or a transmission-gate mux, and only the ratioed-logic note on a pseudo-n-channel gate', () => {
+    const findings = check(tricky);
+    expect(findings.map((f) => `${f.cell}:${f.ruleId}`)).toEqual(['pseudo:stage.ratioed-logic']);
+  });
+
   it('a footed domino gate with a correctly sized half keeper raises nothing', () => {
     expect(check(dominoAnd2())).toEqual([]);
   });
