@@ -70,7 +70,7 @@ export const uploadFieldsSchema = z.object({
 
 /** Text fields of `POST /api/runs` as multipart (files in `files`), or the JSON body with `netlistId`. */
 export const runOptionsSchema = z.object({
-  /** A published or draft version of the team's deck; default: the team deck's default version. */
+  /** A published version of the team's deck (drafts are refused, so no run changes under its submitter); default: the team deck's default version. */
   deckVersionId: z.string().uuid().optional(),
   note: z.string().trim().max(2000).default(''),
   /** Subcircuit to check from; default: every cell nobody instantiates. */
