@@ -286,7 +286,8 @@ const REVIEWED_SQL: Record<string, string[]> = {
   // `from` is one of two constants; `order` maps the zod-checked sort and order onto constant column names.
   'server/services/runs-findings.ts': ['from', 'clause', "order('f')", 'FINDING_COLUMNS', 'waiverJoin', 'IN_BASE', 'IN_HEAD', 'selection'],
   'server/services/waivers.ts': ['WAIVER_SELECT', 'clause'],
-  'server/services/reports.ts': ['FINDING_COLUMNS', 'waiverJoin', "where.join(' and ')", 'statusSql', "options.limit ? 'limit :limit' : ''"],
+  // `match.statusSql` and `match.statusIs` (waivers-status.ts waiverMatch) are constant SQL; the rules and the status they name go in as replacements or are zod-checked enum words.
+  'server/services/reports.ts': ['FINDING_COLUMNS', 'waiverJoin', "where.join(' and ')", 'statusSql', 'match.statusSql', "options.limit ? 'limit :limit' : ''"],
   // Optional constant pieces of an update.
   'server/services/runs-store.ts': ["attempt === undefined ? '' : 'and attempt = :attempt'", "diagnostics ? 'diagnostics = :diagnostics,' : ''"],
   // Development only: the password is quoted by pg's escapeLiteral.

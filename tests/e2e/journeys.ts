@@ -11,7 +11,7 @@
 //
 // Screenshots land in test-artifacts/e2e/.
 
-import { launchBrowser } from '../support/browser';
+import { launchBrowser, screenshot } from '../support/browser';
 import { deckJourney } from './deck-journey';
 import { rolesJourney } from './roles-journey';
 import { Checks, startKeepwell } from './support';
@@ -20,18 +20,23 @@ import { waiverJourney } from './waiver-journey';
 const checks = new Checks('journeys');
 const keepwell = await startKeepwell('e2e', { captureMail: true, log: (line) => checks.say(line) });
 const browser = await launchBrowser();
+// The waiver journey goes first: its run then waits behind the demo's seeded runs, and its
+// progress bar is on screen long enough to be watched. The roles journey waits for those runs.
 for (const [name, journey] of [
-  ['roles', () => rolesJourney(browser, keepwell.base, checks)],
   ['waiver and deck', async () => {
     const { blockId } = await waiverJourney(browser, keepwell.base, keepwell.smtp!, checks);
     await deckJourney(browser, keepwell.base, blockId, checks);
   }],
+  ['roles', () => rolesJourney(browser, keepwell.base, checks)],
 ] as const) {
   const started = Date.now();
   try {
     await journey();
   } catch (error) {
     checks.check(false, `the ${name} journey ran to its end (${error instanceof Error ? error.message : String(error)})`);
+    // What the pages showed when it stopped.
+    let n = 0;
+    for (const context of browser.contexts()) for (const page of context.pages()) checks.say(`screenshot ${await screenshot(page, `failure-${name.replace(/\W+/g, '-')}-${++n}`, { folder: 'e2e' })}`);
   }
   checks.say(`${name} journey: ${((Date.now() - started) / 1000).toFixed(0)} s`);
 }

@@ -24,9 +24,28 @@ import { apiGet, decoratedLines, signIn, until, type Checks } from './support';
 export const JOURNEY_NETLIST = { name: 'lantern-alu-domino.sp', path: path.join(repoRoot, 'server', 'seed', 'demo-netlists', 'lantern-alu-domino.sp') };
 export const JOURNEY_BLOCK = 'lantern-alu-review';
 
+/**
+ * Records every reading of any progress bar the page shows from now on (a MutationObserver, so a
+ * bar shown for a single frame counts), in `window.keepwellBarReadings`. A string, not a function:
+ * tsx would wrap named helpers in code the page does not have.
+ */
+const WATCH_PROGRESS_BARS = `(() => {
+  window.keepwellBarReadings = [];
+  const record = () => {
+    for (const el of document.querySelectorAll('[role="progressbar"]')) {
+      const text = el.getAttribute('aria-valuetext');
+      const all = window.keepwellBarReadings;
+      if (text && all[all.length - 1] !== text) all.push(text);
+    }
+  };
+  new MutationObserver(record).observe(document.body, { subtree: true, childList: true, attributes: true, attributeFilter: ['aria-valuetext'] });
+})()`;
+
 /** Submit the journey's netlist through the block page's form; returns the new run's id once its page is shown. */
-export async function submitThroughForm(page: Page, blockId: string, note: string): Promise<string> {
+export async function submitThroughForm(page: Page, blockId: string, note: string, { watchProgress = false } = {}): Promise<string> {
   await page.goto(`/blocks/${blockId}`);
+  // The page stays one document from the form to the run's page (client-side navigation).
+  if (watchProgress) await page.evaluate(WATCH_PROGRESS_BARS);
   await page.getByRole('button', { name: /Submit a netlist/ }).click();
   const form = page.getByRole('form', { name: 'Submit a netlist for checking' });
   await form.getByLabel('Netlist files or a bundle').setInputFiles({ name: JOURNEY_NETLIST.name, mimeType: 'text/plain', buffer: fs.readFileSync(JOURNEY_NETLIST.path) });
@@ -64,23 +83,19 @@ export async function waiverJourney(browser: Browser, base: string, smtp: FakeSm
   const blockId = new URL(page.url()).pathname.split('/').pop()!;
   check(true, `the designer made block ${JOURNEY_BLOCK}`);
 
-  const runId = await submitThroughForm(page, blockId, 'First check of the carry chain.');
-  // Follow the bar until the run's state says it has finished; keep every reading of it.
-  const readings: string[] = [];
-  let shot = false;
-  const bar = page.getByRole('progressbar').first();
+  const runId = await submitThroughForm(page, blockId, 'First check of the carry chain.', { watchProgress: true });
+  // Follow the run until its state says it has finished; photograph the bar when it is in view.
   const finished = page.locator('[data-state="succeeded"], [data-state="failed"]').first();
-  for (const deadline = Date.now() + 180_000; Date.now() < deadline; ) {
-    if (await finished.isVisible()) break;
-    const text = await bar.getAttribute('aria-valuetext', { timeout: 200 }).catch(() => null);
-    if (text && readings[readings.length - 1] !== text) readings.push(text);
-    if (text && !shot) {
+  const bar = page.getByRole('progressbar').first();
+  for (let shot = false, deadline = Date.now() + 180_000; !(await finished.isVisible()) && Date.now() < deadline; ) {
+    if (!shot && (await bar.isVisible())) {
       say(`screenshot ${await screenshot(page, 'waiver-1-progress', { folder: 'e2e', fullPage: false })}`);
       shot = true;
     }
-    await page.waitForTimeout(30);
+    await page.waitForTimeout(50);
   }
   const first = await waitForRun(page, runId);
+  const readings = (await page.evaluate('window.keepwellBarReadings')) as string[];
   say(`progress bar readings: ${readings.join(' → ')}`);
   const percents = readings.map((r) => Number(/^(\d+) %/.exec(r)?.[1] ?? NaN)).filter(Number.isFinite);
   check(
@@ -103,6 +118,8 @@ export async function waiverJourney(browser: Browser, base: string, smtp: FakeSm
   const aside = page.getByRole('complementary', { name: 'Selected finding' });
   await aside.getByText(finding!.message).waitFor();
   const editor = page.locator('.monaco-editor').first();
+  // Monaco is a lazy chunk of a few megabytes: on a loaded two-core machine it takes a while to start.
+  await editor.waitFor({ timeout: 60_000 });
   await page.locator('.view-overlays .kw-line-focus').first().waitFor({ timeout: 30_000 });
   await page.waitForTimeout(600); // the smooth scroll to the line
   const focused = await decoratedLines(editor, 'kw-line-focus');
