@@ -25,7 +25,7 @@ import { makeRunTeamSetup, nandBlock, startWorker, storedFindings, submitUpload,
 
 const MiB = 1024 * 1024;
 /** Bounds every input must stay within on this 2-core machine, with other test files running beside it. */
-const BOUNDS = { elapsedMs: 60_000, workerPeakBytes: 1024 * MiB, probeMs: 2_000 };
+const BOUNDS = { elapsedMs: 30_000, workerPeakBytes: 640 * MiB, probeMs: 2_000 };
 
 let env: TestEnv;
 let worker: WorkerProcess;
