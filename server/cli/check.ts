@@ -5,19 +5,19 @@
 // and write a report. Exit 0: no error-severity finding; 1: some; 2: the input
 // could not be read or parsed (problems go to standard error as file:line:column).
 
-import { readFileSync, statSync, writeFileSync } from 'node:fs';
-import { dirname, isAbsolute, relative, resolve, sep } from 'node:path';
+import { readFileSync, writeFileSync } from 'node:fs';
+import { resolve } from 'node:path';
 import { pathToFileURL } from 'node:url';
-import { parseArgs } from 'node:util';
 import type { Design, Diagnostic } from '../../grammar/design';
-import { includeReferences, parseSpiceNumber, readDesign } from '../../grammar/index';
+import { readDesign } from '../../grammar/index';
 import { checkDesign } from '../../rules/engine';
 import { buildSarif } from '../../rules/sarif';
-import { defaultDeck } from '../../rules/default-deck';
-import { validateDeck } from '../../rules/validate-deck';
 import { formatSi } from '../../rules/units';
 import type { Deck } from '../../shared/deck';
 import { checkReportSchema, REVIEW_CAUTION, type CheckReport, type Finding } from '../../shared/findings';
+import { InputError, loadDeck, loadFiles, parseCommandLine, parseScale, readOptions, workingDirectory, type LoadedFiles } from './inputs';
+
+export { loadFiles } from './inputs';
 
 const USAGE = `usage: keepwell check FILE… [options]
 
@@ -71,116 +71,6 @@ function usage(): string {
   return USAGE.replace('%FORMATS%', Object.keys(reportFormats).join('|'));
 }
 
-class InputError extends Error {}
-
-interface LoadedFiles {
-  /** Path relative to the common root (forward slashes) → text. */
-  files: Map<string, string>;
-  /** The given files, in the same keys. */
-  entries: string[];
-  /** Key → path to show (relative to the working directory). */
-  display: Map<string, string>;
-}
-
-/** Where the user ran the command: `npm run` moves to the package folder and keeps the original in INIT_CWD. */
-function workingDirectory(): string {
-  return process.env.INIT_CWD ?? process.cwd();
-}
-
-const decoder = new TextDecoder('utf-8', { fatal: false });
-
-function readText(path: string): string {
-  let st;
-  try {
-    st = statSync(path);
-  } catch (e) {
-    throw new InputError(`${path}: cannot read: ${(e as NodeJS.ErrnoException).code === 'ENOENT' ? 'no such file' : (e as Error).message}`);
-  }
-  if (st.isDirectory()) throw new InputError(`${path}: is a folder; give the netlist files`);
-  try {
-    return decoder.decode(readFileSync(path));
-  } catch (e) {
-    throw new InputError(`${path}: cannot read: ${(e as Error).message}`);
-  }
-}
-
-function commonRoot(dirs: string[]): string {
-  let root = dirs[0];
-  for (const d of dirs.slice(1)) {
-    while (!(d === root || d.startsWith(root.endsWith(sep) ? root : root + sep))) {
-      const up = dirname(root);
-      if (up === root) break;
-      root = up;
-    }
-  }
-  return root;
-}
-
-function under(path: string, dir: string): boolean {
-  const rel = relative(dir, path);
-  return rel !== '' && !rel.startsWith('..') && !isAbsolute(rel);
-}
-
-/** Read the given files and, transitively, the files they include from inside the given files' folders. */
-export function loadFiles(paths: string[], cwd = workingDirectory()): LoadedFiles {
-  const absolute = paths.map((p) => resolve(cwd, p));
-  const allowed = [...new Set(absolute.map((p) => dirname(p)))];
-  const root = commonRoot(allowed);
-  const key = (abs: string) => relative(root, abs).split(sep).join('/');
-  const files = new Map<string, string>();
-  const display = new Map<string, string>();
-  const queue: string[] = [];
-  const add = (abs: string, required: boolean) => {
-    const k = key(abs);
-    if (files.has(k)) return;
-    let text: string;
-    try {
-      text = readText(abs);
-    } catch (e) {
-      if (required) throw e;
-      return; // a missing include is reported by the reader, with its line
-    }
-    files.set(k, text);
-    const rel = relative(cwd, abs);
-    display.set(k, rel && !rel.startsWith('..') ? rel : abs);
-    queue.push(abs);
-  };
-  for (const abs of absolute) add(abs, true);
-  while (queue.length) {
-    const from = queue.shift()!;
-    for (const ref of includeReferences(files.get(key(from))!)) {
-      if (isAbsolute(ref) || /^[A-Za-z]:[\\/]/.test(ref)) continue; // refused by the reader
-      for (const base of [dirname(from), root]) {
-        const target = resolve(base, ref);
-        if (!allowed.some((d) => under(target, d))) continue;
-        try {
-          if (statSync(target).isFile()) {
-            add(target, false);
-            break;
-          }
-        } catch {
-          // not there; try the next base
-        }
-      }
-    }
-  }
-  return { files, entries: absolute.map(key), display };
-}
-
-function loadDeck(path: string | undefined): Deck {
-  if (!path) return defaultDeck();
-  let data: unknown;
-  try {
-    data = JSON.parse(readText(resolve(workingDirectory(), path)));
-  } catch (e) {
-    if (e instanceof InputError) throw e;
-    throw new InputError(`${path}: not a JSON deck: ${(e as Error).message}`);
-  }
-  const v = validateDeck(data);
-  if (!v.ok) throw new InputError(`${path}: not a valid deck:\n${v.issues.map((i) => `  ${i.path || '(deck)'}: ${i.message}`).join('\n')}`);
-  return v.deck;
-}
-
 function toolVersion(): string {
   try {
     const pkg = JSON.parse(readFileSync(new URL('../../package.json', import.meta.url), 'utf8')) as { version?: string };
@@ -228,31 +118,16 @@ export function formatText(report: CheckReport): string {
 }
 
 export async function run(args: string[]): Promise<number> {
-  let values: { deck?: string; top?: string; scale?: string; format?: string; output?: string; help?: boolean };
-  let positionals: string[];
-  try {
-    const parsed = parseArgs({
-      args,
-      allowPositionals: true,
-      options: {
-        deck: { type: 'string' },
-        top: { type: 'string' },
-        scale: { type: 'string' },
-        format: { type: 'string' },
-        output: { type: 'string' },
-        help: { type: 'boolean', short: 'h' },
-      },
-    });
-    values = parsed.values;
-    positionals = parsed.positionals;
-  } catch (e) {
-    process.stderr.write(`keepwell check: ${(e as Error).message}\n\n${usage()}\n`);
-    return 2;
-  }
-  if (values.help) {
-    process.stdout.write(usage() + '\n');
-    return 0;
-  }
+  const parsed = parseCommandLine('check', usage(), args, {
+    deck: { type: 'string' },
+    top: { type: 'string' },
+    scale: { type: 'string' },
+    format: { type: 'string' },
+    output: { type: 'string' },
+  });
+  if (typeof parsed === 'number') return parsed;
+  const { positionals } = parsed;
+  const values = parsed.values as { deck?: string; top?: string; scale?: string; format?: string; output?: string };
   if (positionals.length === 0) {
     process.stderr.write(`keepwell check: no netlist files given\n\n${usage()}\n`);
     return 2;
@@ -263,20 +138,12 @@ export async function run(args: string[]): Promise<number> {
     process.stderr.write(`keepwell check: unknown format "${formatName}" (available: ${Object.keys(reportFormats).join(', ')})\n`);
     return 2;
   }
-  let scale: number | undefined;
-  if (values.scale !== undefined) {
-    const r = parseSpiceNumber(values.scale);
-    if (!r.ok || !(r.value > 0) || r.value > 1) {
-      process.stderr.write(`keepwell check: --scale "${values.scale}" is not a length scale between 0 and 1 (e.g. 1e-6)\n`);
-      return 2;
-    }
-    scale = r.value;
-  }
-
   const started = performance.now();
   let deck: Deck;
   let loaded: LoadedFiles;
+  let scale: number | undefined;
   try {
+    scale = parseScale(values.scale);
     deck = loadDeck(values.deck);
     loaded = loadFiles(positionals);
   } catch (e) {
@@ -287,14 +154,7 @@ export async function run(args: string[]): Promise<number> {
     throw e;
   }
 
-  const design = readDesign(loaded.files, {
-    entry: loaded.entries,
-    ...(values.top ? { top: values.top } : {}),
-    ...(scale !== undefined ? { scale } : {}),
-    defaultScale: deck.scale,
-    deviceMap: deck.deviceMap,
-    supplies: deck.supplies,
-  });
+  const design = readDesign(loaded.files, readOptions(loaded, deck, { top: values.top, scale }));
   const shown = (file: string) => loaded.display.get(file) ?? file;
   for (const d of design.diagnostics) process.stderr.write(formatDiagnostic(d, shown(d.file)) + '\n');
   const parseErrors = design.diagnostics.filter((d) => d.severity === 'error').length;

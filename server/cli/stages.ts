@@ -6,19 +6,14 @@
 // The cells are walked by the rule engine, so rails reach a cell from its parents
 // exactly as in `keepwell check`.
 
-import { readFileSync } from 'node:fs';
-import { resolve } from 'node:path';
-import { parseArgs } from 'node:util';
-import { parseSpiceNumber, readDesign } from '../../grammar/index';
+import { readDesign } from '../../grammar/index';
 import { checkDesign } from '../../rules/engine';
-import { defaultDeck } from '../../rules/default-deck';
-import { validateDeck } from '../../rules/validate-deck';
 import { stageAnalysesOf, stageRows, type StageRow } from '../../rules/stages';
 import { defineRule, type RuleModule } from '../../rules/types';
 import type { Deck } from '../../shared/deck';
 import { REVIEW_CAUTION } from '../../shared/findings';
 import { z } from 'zod';
-import { loadFiles } from './check';
+import { InputError, loadDeck, loadFiles, parseCommandLine, parseScale, readOptions, type LoadedFiles } from './inputs';
 
 const USAGE = `usage: keepwell stages FILE… [options]
 
@@ -37,64 +32,35 @@ exit status: 0 report written, 2 unreadable input, parse errors or unknown cell`
 const COLLECTOR_ID = 'stage.report';
 
 export async function run(args: string[]): Promise<number> {
-  let values: { cell?: string; deck?: string; scale?: string; format?: string; help?: boolean };
-  let positionals: string[];
-  try {
-    const parsed = parseArgs({
-      args,
-      allowPositionals: true,
-      options: {
-        cell: { type: 'string' },
-        deck: { type: 'string' },
-        scale: { type: 'string' },
-        format: { type: 'string' },
-        help: { type: 'boolean', short: 'h' },
-      },
-    });
-    values = parsed.values;
-    positionals = parsed.positionals;
-  } catch (e) {
-    process.stderr.write(`keepwell stages: ${(e as Error).message}\n\n${USAGE}\n`);
-    return 2;
-  }
-  if (values.help) {
-    process.stdout.write(USAGE + '\n');
-    return 0;
-  }
+  const parsed = parseCommandLine('stages', USAGE, args, {
+    cell: { type: 'string' },
+    deck: { type: 'string' },
+    scale: { type: 'string' },
+    format: { type: 'string' },
+  });
+  if (typeof parsed === 'number') return parsed;
+  const { positionals } = parsed;
+  const values = parsed.values as { cell?: string; deck?: string; scale?: string; format?: string };
   const fail = (message: string) => {
     process.stderr.write(`keepwell stages: ${message}\n`);
     return 2;
   };
   if (!positionals.length) return fail(`no netlist files given\n\n${USAGE}`);
   if ((values.format ?? 'json') !== 'json') return fail(`unknown format "${values.format}" (available: json)`);
-  let scale: number | undefined;
-  if (values.scale !== undefined) {
-    const r = parseSpiceNumber(values.scale);
-    if (!r.ok || !(r.value > 0) || r.value > 1) return fail(`--scale "${values.scale}" is not a length scale between 0 and 1 (e.g. 1e-6)`);
-    scale = r.value;
-  }
 
-  let deck: Deck = defaultDeck();
-  let loaded: ReturnType<typeof loadFiles>;
+  let deck: Deck;
+  let loaded: LoadedFiles;
+  let scale: number | undefined;
   try {
-    if (values.deck) {
-      const path = resolve(process.env.INIT_CWD ?? process.cwd(), values.deck);
-      const v = validateDeck(JSON.parse(readFileSync(path, 'utf8')));
-      if (!v.ok) return fail(`${values.deck}: not a valid deck:\n${v.issues.map((i) => `  ${i.path || '(deck)'}: ${i.message}`).join('\n')}`);
-      deck = v.deck;
-    }
+    scale = parseScale(values.scale);
+    deck = loadDeck(values.deck);
     loaded = loadFiles(positionals);
   } catch (e) {
-    return fail((e as Error).message);
+    if (e instanceof InputError) return fail(e.message);
+    throw e;
   }
 
-  const design = readDesign(loaded.files, {
-    entry: loaded.entries,
-    ...(scale !== undefined ? { scale } : {}),
-    defaultScale: deck.scale,
-    deviceMap: deck.deviceMap,
-    supplies: deck.supplies,
-  });
+  const design = readDesign(loaded.files, readOptions(loaded, deck, { scale }));
   const shown = (file: string) => loaded.display.get(file) ?? file;
   for (const d of design.diagnostics) process.stderr.write(`${shown(d.file)}:${d.line}:${d.column}: ${d.severity}: ${d.message}\n`);
   if (design.diagnostics.some((d) => d.severity === 'error')) return 2;

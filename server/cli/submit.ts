@@ -9,12 +9,11 @@
 
 import { resolve } from 'node:path';
 import { Readable } from 'node:stream';
-import { parseArgs } from 'node:util';
 import * as tar from 'tar';
 import type { ReviewReport } from '../../shared/api/reports';
 import type { RunView, StoredFinding } from '../../shared/api/runs';
 import { REVIEW_CAUTION } from '../../shared/findings';
-import { loadFiles } from './check';
+import { loadFiles, parseCommandLine } from './inputs';
 
 const USAGE = `usage: keepwell submit FILE… --server URL --token TOKEN --block BLOCK [options]
 
@@ -126,34 +125,18 @@ function textSummary(run: RunView, report: ReviewReport, findings: StoredFinding
 }
 
 export async function run(args: string[]): Promise<number> {
-  let values: Record<string, string | boolean | undefined>;
-  let positionals: string[];
-  try {
-    const parsed = parseArgs({
-      args,
-      allowPositionals: true,
-      options: {
-        server: { type: 'string' },
-        token: { type: 'string' },
-        block: { type: 'string' },
-        'deck-version': { type: 'string' },
-        top: { type: 'string' },
-        note: { type: 'string' },
-        timeout: { type: 'string' },
-        format: { type: 'string' },
-        help: { type: 'boolean', short: 'h' },
-      },
-    });
-    values = parsed.values;
-    positionals = parsed.positionals;
-  } catch (e) {
-    process.stderr.write(`keepwell submit: ${(e as Error).message}\n\n${USAGE}\n`);
-    return 2;
-  }
-  if (values.help) {
-    process.stdout.write(USAGE + '\n');
-    return 0;
-  }
+  const parsed = parseCommandLine('submit', USAGE, args, {
+    server: { type: 'string' },
+    token: { type: 'string' },
+    block: { type: 'string' },
+    'deck-version': { type: 'string' },
+    top: { type: 'string' },
+    note: { type: 'string' },
+    timeout: { type: 'string' },
+    format: { type: 'string' },
+  });
+  if (typeof parsed === 'number') return parsed;
+  const { values, positionals } = parsed;
   const server = (values.server as string | undefined) ?? process.env.KEEPWELL_SERVER;
   const token = (values.token as string | undefined) ?? process.env.KEEPWELL_TOKEN;
   const format = ((values.format as string | undefined) ?? 'text') as Format;
