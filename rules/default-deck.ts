@@ -97,6 +97,9 @@ export function defaultDeck(): Deck {
       { pattern: '*pfet*', kind: 'pmos' },
       { pattern: '*pch*', kind: 'pmos' },
       { pattern: '*pmos*', kind: 'pmos' },
+      // Open PDKs name their junction diodes after the wells (diode_pw2nd, ndiode…): subcircuit
+      // instances of them are diodes, not cells to look into.
+      { pattern: '*diode*', kind: 'diode' },
     ],
     scale: 1,
     // Rule of thumb: the slowest clock a block sees is its scan/test clock; 100 ns (10 MHz) is a common floor.

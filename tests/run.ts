@@ -50,6 +50,22 @@ function run(command: string, args: string[], env: NodeJS.ProcessEnv = process.e
   });
 }
 
+/** Failed tests, named by file and title, from vitest's JSON report (so the summary says which). */
+function failedTestsIn(file: string): string[] {
+  if (!fs.existsSync(file)) return ['(vitest wrote no report: it stopped before the end)'];
+  type Report = { testResults: { name: string; status: string; message?: string; assertionResults: { fullName: string; status: string; failureMessages: string[] }[] }[] };
+  const report = JSON.parse(fs.readFileSync(file, 'utf8')) as Report;
+  const out: string[] = [];
+  for (const suite of report.testResults) {
+    const where = path.relative(repoRoot, suite.name);
+    const failed = suite.assertionResults.filter((a) => a.status === 'failed');
+    if (!failed.length && suite.status === 'failed') out.push(`${where}: ${(suite.message ?? 'the file failed to run').split('\n')[0]}`);
+    for (const a of failed) out.push(`${where} > ${a.fullName}: ${(a.failureMessages[0] ?? '').split('\n')[0].slice(0, 240)}`);
+  }
+  return out;
+}
+
+const failedTests: string[] = [];
 const bin = (name: string) => path.join(repoRoot, 'node_modules', '.bin', name);
 
 const ready = await step('services and tools', async () => {
@@ -66,7 +82,12 @@ const ready = await step('services and tools', async () => {
 });
 
 if (ready) {
-  if (!e2eOnly) await step('vitest run (unit, api, ui)', () => run(bin('vitest'), ['run']));
+  if (!e2eOnly) {
+    const results = path.join(repoRoot, 'test-artifacts', 'vitest-results.json');
+    fs.rmSync(results, { force: true });
+    const passed = await step('vitest run (unit, api, ui)', () => run(bin('vitest'), ['run', '--reporter=default', '--reporter=json', `--outputFile.json=${results}`]));
+    if (!passed) failedTests.push(...failedTestsIn(results));
+  }
   const built = await step('client build', async () => {
     await build({ configFile: path.join(repoRoot, 'vite.config.ts'), logLevel: 'warn' });
   });
@@ -80,6 +101,10 @@ if (ready) {
 const width = Math.max(...steps.map((s) => s.name.length));
 console.log(`\n=== summary (${e2eOnly ? 'journeys only' : 'everything'})`);
 for (const s of steps) console.log(`${s.ok ? 'ok  ' : 'FAIL'}  ${s.name.padEnd(width)}  ${s.seconds.toFixed(0).padStart(5)} s${s.note ? `  ${s.note}` : ''}`);
+if (failedTests.length) {
+  console.log(`\nfailed tests (${failedTests.length}):`);
+  for (const t of failedTests.slice(0, 40)) console.log(`  ${t}`);
+}
 const failed = steps.filter((s) => !s.ok).length;
 console.log(`${failed ? `${failed} step(s) failed` : 'all steps passed'} in ${((Date.now() - started) / 60_000).toFixed(1)} min`);
 process.exit(failed ? 1 : 0);

@@ -11,6 +11,7 @@
 
 import fs from 'node:fs';
 import http from 'node:http';
+import os from 'node:os';
 import path from 'node:path';
 import { Readable } from 'node:stream';
 import * as tar from 'tar';
@@ -169,7 +170,7 @@ function renamedMember(bytes: Buffer, from: string, to: string): Buffer {
 
 /** A tar whose second member is stored as `../escape.sp` (POSIX ustar names are taken as written). */
 async function climbingTar(): Promise<Buffer> {
-  const dir = fs.mkdtempSync(path.join(repoRoot, 'test-artifacts', 'hostile-tar-'));
+  const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'keepwell-hostile-tar-'));
   try {
     fs.mkdirSync(path.join(dir, 'inner'));
     fs.writeFileSync(path.join(dir, 'inner', 'top.sp'), `* top\n${INVERTER}`);

@@ -149,7 +149,7 @@ describe('extracted netlists', () => {
   });
 
   it('reports an X line whose name is neither a subcircuit nor a mapped device', () => {
-    const d = read(lines('* unmapped', '.subckt c A', 'X0 A B sky130_fd_pr__diode_pw2nd', '.ends'));
+    const d = read(lines('* unmapped', '.subckt c A', 'X0 A B sky130_fd_pr__esd_clamp', '.ends'));
     expect(where(d)).toEqual(['unknown-subckt@3:8']);
     // With a deck that maps diodes, the same line is a diode.
     const mapped = read(lines('* mapped', '.subckt c A', 'X0 A B sky130_fd_pr__diode_pw2nd', '.ends'), {

@@ -72,14 +72,19 @@ export default function NetlistEditor({
 }: NetlistEditorProps) {
   const editorRef = useRef<monaco.editor.IStandaloneCodeEditor | null>(null);
   const decorationsRef = useRef<monaco.editor.IEditorDecorationsCollection | null>(null);
+  // onMount runs once, possibly several renders after the first one: it reads the props through refs.
+  const highlightsRef = useRef(highlights);
   const marksRef = useRef(marks);
+  const revealLineRef = useRef(revealLine);
   const onMarkClickRef = useRef(onMarkClick);
   const onOpenFileRef = useRef(onOpenFile);
   const onNavigateRef = useRef(onNavigateFinding);
   const fileNameRef = useRef(fileName);
   /** A definition in another file, waiting for that file to be shown. */
   const pendingRef = useRef<{ path: string; position: monaco.IPosition } | null>(null);
+  highlightsRef.current = highlights;
   marksRef.current = marks;
+  revealLineRef.current = revealLine;
   onMarkClickRef.current = onMarkClick;
   onOpenFileRef.current = onOpenFile;
   onNavigateRef.current = onNavigateFinding;
@@ -140,6 +145,8 @@ export default function NetlistEditor({
       run: navigate('previous'),
     });
     decorationsRef.current = editor.createDecorationsCollection();
+    // A collection empties when the editor switches models (another file of the set).
+    editor.onDidChangeModel(() => applyDecorations());
     editor.onMouseDown((e) => {
       if (e.target.type !== monaco.editor.MouseTargetType.GUTTER_GLYPH_MARGIN || !e.target.position) return;
       const line = e.target.position.lineNumber;
@@ -147,16 +154,16 @@ export default function NetlistEditor({
       if (mark) onMarkClickRef.current?.(mark);
     });
     applyDecorations();
-    if (revealLine) editor.revealLineInCenter(revealLine);
+    if (revealLineRef.current) editor.revealLineInCenter(revealLineRef.current);
   };
 
   function applyDecorations() {
     const editor = editorRef.current;
     const lineCount = editor?.getModel()?.getLineCount() ?? 1;
-    decorationsRef.current?.set(toDecorations(highlights, marks, lineCount));
+    decorationsRef.current?.set(toDecorations(highlightsRef.current, marksRef.current, lineCount));
   }
 
-  useEffect(applyDecorations, [highlights, marks, value]);
+  useEffect(applyDecorations, [highlights, marks, value, fileName]);
 
   // A finding's line is revealed whenever it or the file changes; a pending definition (just
   // switched to its file) comes after and wins.
