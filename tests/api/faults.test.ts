@@ -273,11 +273,19 @@ describe('Redis killed and back empty while a run is running and two are queued'
     workers.push(worker);
     await waitInsideSecondPart(ids[0], worker);
 
-    await redis.kill();
-    await redis.start();
-    const probe = new Redis({ port: redis.port, host: '127.0.0.1' });
-    expect(await probe.dbsize()).toBe(0);
-    probe.disconnect();
+    // The worker is held still (SIGSTOP) across the restart so the probe sees the new Redis before
+    // the worker reconnects and writes to it; its connections die with the old Redis all the same.
+    const pid = worker.child.pid!;
+    process.kill(pid, 'SIGSTOP');
+    try {
+      await redis.kill();
+      await redis.start();
+      const probe = new Redis({ port: redis.port, host: '127.0.0.1' });
+      expect(await probe.dbsize()).toBe(0);
+      probe.disconnect();
+    } finally {
+      process.kill(pid, 'SIGCONT');
+    }
 
     await expectEachRunOnce(agent, runs.map((r, i) => ({ id: ids[i], files: r.files })), worker);
     expect(worker.output()).toMatch(/reconciler: re-enqueued \d+ run/);

@@ -3,7 +3,7 @@
 // The netlist's .model cards reach Keepwell's solver the way a designer's would.
 // Agreement required: 20 mV on VM, VIL, VIH and 5 % on the peak gain (the brief's tolerances).
 
-import { describe, expect, it } from 'vitest';
+import { afterAll, describe, expect, it } from 'vitest';
 import { CellBuilder, mosCard } from '../support/cell-builder';
 import { curvePoints, dcSweep } from '../support/ngspice';
 import { analyseCell, corner, deckWith, sweptResult } from './helpers';
@@ -28,7 +28,17 @@ function reference(body: string) {
   return curvePoints(sweep.x, sweep.y[0]);
 }
 
+/** Differences against ngspice per case, printed at the end for the record. */
+const agreement: string[] = [];
+afterAll(() => {
+  if (agreement.length) console.log(['case | ΔVM | ΔVIL | ΔVIH | Δ peak gain', ...agreement].join('\n'));
+});
+const mV = (a: number | null | undefined, b: number | null | undefined) => (a == null || b == null ? '–' : `${(Math.abs(a - b) * 1000).toFixed(3)} mV`);
+
 function expectAgreement(ours: ReturnType<typeof sweptResult>['result'], ref: ReturnType<typeof reference>) {
+  agreement.push(
+    `${expect.getState().currentTestName ?? '?'} | ${mV(ours.vm, ref.vm)} | ${mV(ours.vil, ref.vil)} | ${mV(ours.vih, ref.vih)} | ${((Math.abs(ours.maxGain - ref.maxGain) / Math.abs(ref.maxGain)) * 100).toFixed(2)} % (ours ${ours.maxGain.toFixed(3)}, ngspice ${ref.maxGain.toFixed(3)})`,
+  );
   expect(Math.abs(ours.vm - ref.vm)).toBeLessThan(0.02);
   if (ref.vil === null) expect(ours.vil).toBeNull();
   else expect(Math.abs(ours.vil! - ref.vil)).toBeLessThan(0.02);
