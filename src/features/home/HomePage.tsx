@@ -6,11 +6,59 @@ import { Loading } from '../../components/LoadState';
 import { ErrorNotice } from '../../components/Notice';
 import { PageHeader, Panel, Section } from '../../components/PageHeader';
 import { useDocumentTitle } from '../../lib/document-title';
-import { formatDate } from '../../lib/format';
+import { formatDate, formatDateTime } from '../../lib/format';
 import { useCan, useCurrentUser } from '../../lib/session';
 import { blocksQuery } from '../blocks/queries';
+import { isFinished, recentRunsQuery } from '../runs/queries';
+import { RunProgressBar, RunStateBadge, SeverityCounts } from '../runs/RunState';
 
 const RECENT_BLOCKS = 6;
+const RECENT_RUNS = 8;
+
+function RecentRuns() {
+  const runs = useQuery(recentRunsQuery(RECENT_RUNS));
+  if (runs.isPending) return <Loading label="Loading the runs…" />;
+  if (runs.isError) return <ErrorNotice error={runs.error} title="Could not load the runs" />;
+  if (runs.data.items.length === 0)
+    return (
+      <EmptyState
+        compact
+        title="No runs yet"
+        illustration="well"
+        steps={['Open a block and submit its netlist for a check.', 'Queued, running and finished runs then appear here, newest first, with their error and warning counts.']}
+      >
+        Runs of your team’s blocks will be listed here as soon as they are submitted, so you can follow them from queue to findings.
+      </EmptyState>
+    );
+  return (
+    <Panel>
+      <ul className="divide-y divide-ink-100" aria-label="Recent runs">
+        {runs.data.items.map((run) => (
+          <li key={run.id}>
+            <Link to={`/runs/${run.id}`} className="flex flex-wrap items-center justify-between gap-x-4 gap-y-2 px-4 py-3 hover:bg-ink-50">
+              <span className="min-w-0">
+                <span className="block truncate font-mono text-sm font-medium text-well-800">{run.block.name}</span>
+                <span className="block text-xs tabular-nums text-ink-500">
+                  {formatDateTime(run.createdAt)}
+                  {run.submitter ? ` · ${run.submitter.name}` : ''} · {run.deck.name} v{run.deck.version}
+                </span>
+              </span>
+              <span className="flex shrink-0 items-center gap-3">
+                {run.state === 'succeeded' ? <SeverityCounts summary={run.summary} /> : <RunStateBadge state={run.state} />}
+                {!isFinished(run.state) && <RunProgressBar run={run} compact />}
+              </span>
+            </Link>
+          </li>
+        ))}
+      </ul>
+      {runs.data.total > runs.data.items.length && (
+        <p className="border-t border-ink-100 px-4 py-2 text-xs text-ink-500">
+          {runs.data.total - runs.data.items.length} earlier run{runs.data.total - runs.data.items.length === 1 ? '' : 's'} on the blocks’ pages.
+        </p>
+      )}
+    </Panel>
+  );
+}
 
 export function HomePage() {
   useDocumentTitle('Overview');
@@ -24,14 +72,7 @@ export function HomePage() {
       <PageHeader title="Overview" description={user.teamName ? `What ${user.teamName} is checking, and what needs a look.` : 'What your team is checking, and what needs a look.'} />
       <div className="grid gap-8 xl:grid-cols-[minmax(0,3fr)_minmax(0,2fr)]">
         <Section title="Recent runs" description="The latest check runs of every block of your team.">
-          <EmptyState
-            compact
-            title="No runs yet"
-            illustration="well"
-            steps={['Open a block and submit its netlist for a check.', 'Queued, running and finished runs then appear here, newest first, with their error and warning counts.']}
-          >
-            Runs of your team’s blocks will be listed here as soon as they are submitted, so you can follow them from queue to findings.
-          </EmptyState>
+          <RecentRuns />
         </Section>
         <Section
           title="Blocks"

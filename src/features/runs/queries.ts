@@ -39,6 +39,15 @@ export function blockRunsQuery(blockId: string, page: number, pageSize = 20, sta
   });
 }
 
+/** The team's newest runs across its blocks, followed while any of them is unfinished. */
+export function recentRunsQuery(pageSize: number) {
+  return queryOptions({
+    queryKey: ['runs', 'list', { blockId: null, page: 1, pageSize, state: null }],
+    queryFn: ({ signal }) => api.get('/api/runs', { signal, query: { page: 1, pageSize }, schema: runPageSchema }),
+    refetchInterval: (query) => (query.state.data?.items.some((r) => !isFinished(r.state)) ? POLL_MS : false),
+  });
+}
+
 export function runFileQuery(runId: string, path: string) {
   return queryOptions({
     queryKey: ['runs', runId, 'file', path],
