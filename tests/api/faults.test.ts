@@ -15,7 +15,6 @@
 import { spawn, spawnSync, type SpawnOptions } from 'node:child_process';
 import crypto from 'node:crypto';
 import fs from 'node:fs';
-import net from 'node:net';
 import os from 'node:os';
 import path from 'node:path';
 import pg from 'pg';
@@ -28,18 +27,8 @@ import { defaultDeck } from '../../rules/default-deck';
 import { runMigrations } from '../../server/db/migrate';
 import { createSequelize } from '../../server/db/sequelize';
 import { createTeam, signedInAs, startTestEnv, type TestEnv } from './helpers';
+import { freePort, PrivateRedis } from './private-redis';
 import { executionsOf, makeRunTeamSetup, nandBlock, startWorker, storedFindings, submitUpload, waitForRun, type WorkerProcess } from './runs-helpers';
-
-function freePort(): Promise<number> {
-  return new Promise((resolve, reject) => {
-    const server = net.createServer();
-    server.once('error', reject);
-    server.listen(0, '127.0.0.1', () => {
-      const { port } = server.address() as net.AddressInfo;
-      server.close(() => resolve(port));
-    });
-  });
-}
 
 function run(command: string, args: string[], options: SpawnOptions = {}): Promise<{ code: number; output: string }> {
   return new Promise((resolve, reject) => {
@@ -104,46 +93,6 @@ class PrivatePostgres {
 
   async dispose(): Promise<void> {
     await this.stop('immediate').catch(() => {});
-    fs.rmSync(this.dir, { recursive: true, force: true });
-  }
-}
-
-/** The project's redis-server on a free port, without persistence: a restart after SIGKILL comes back empty. */
-class PrivateRedis {
-  private child?: ReturnType<typeof spawn>;
-  readonly dir = fs.mkdtempSync(path.join(os.tmpdir(), 'keepwell-faults-redis-'));
-  constructor(readonly port: number) {}
-
-  async start(): Promise<void> {
-    const binary = spawnSync('sh', ['-c', 'command -v redis-server'], { encoding: 'utf8' }).stdout.trim();
-    if (!binary) throw new Error('redis-server is not installed (server/dev/services.ts installs it on npm start and npm test)');
-    this.child = spawn(binary, ['--port', String(this.port), '--bind', '127.0.0.1', '--save', '', '--appendonly', 'no', '--dir', this.dir], { stdio: 'ignore' });
-    const deadline = Date.now() + 10_000;
-    for (;;) {
-      const client = new Redis({ port: this.port, host: '127.0.0.1', lazyConnect: true, maxRetriesPerRequest: 0, retryStrategy: () => null });
-      client.on('error', () => {});
-      try {
-        await client.connect();
-        if ((await client.ping()) === 'PONG') return;
-      } catch {
-        if (Date.now() > deadline) throw new Error(`private Redis on ${this.port} did not start`);
-        await new Promise((r) => setTimeout(r, 100));
-      } finally {
-        client.disconnect();
-      }
-    }
-  }
-
-  async kill(): Promise<void> {
-    const child = this.child;
-    if (!child || child.exitCode !== null || child.signalCode !== null) return;
-    const gone = new Promise((r) => child.once('exit', r));
-    child.kill('SIGKILL');
-    await gone;
-  }
-
-  async dispose(): Promise<void> {
-    await this.kill();
     fs.rmSync(this.dir, { recursive: true, force: true });
   }
 }
