@@ -40,6 +40,13 @@ function FieldShell({ id, label, hint, error, children, className = '' }: FieldS
   );
 }
 
+/** The control's id and the element that describes it: the error when there is one, else the hint. */
+function useFieldIds(id: string | undefined, error: string | undefined, hint: ReactNode) {
+  const autoId = useId();
+  const fieldId = id ?? autoId;
+  return { fieldId, describedBy: error ? `${fieldId}-error` : hint ? `${fieldId}-hint` : undefined };
+}
+
 type TextFieldProps = InputHTMLAttributes<HTMLInputElement> & {
   label: ReactNode;
   hint?: ReactNode;
@@ -49,9 +56,7 @@ type TextFieldProps = InputHTMLAttributes<HTMLInputElement> & {
 };
 
 export function TextField({ label, hint, error, id, className = '', wrapperClassName, ref, ...rest }: TextFieldProps) {
-  const autoId = useId();
-  const fieldId = id ?? autoId;
-  const describedBy = error ? `${fieldId}-error` : hint ? `${fieldId}-hint` : undefined;
+  const { fieldId, describedBy } = useFieldIds(id, error, hint);
   return (
     <FieldShell id={fieldId} label={label} hint={hint} error={error} className={wrapperClassName}>
       <input
@@ -75,9 +80,7 @@ type TextAreaFieldProps = TextareaHTMLAttributes<HTMLTextAreaElement> & {
 };
 
 export function TextAreaField({ label, hint, error, id, className = '', wrapperClassName, ref, ...rest }: TextAreaFieldProps) {
-  const autoId = useId();
-  const fieldId = id ?? autoId;
-  const describedBy = error ? `${fieldId}-error` : hint ? `${fieldId}-hint` : undefined;
+  const { fieldId, describedBy } = useFieldIds(id, error, hint);
   return (
     <FieldShell id={fieldId} label={label} hint={hint} error={error} className={wrapperClassName}>
       <textarea
