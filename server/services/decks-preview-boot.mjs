@@ -4,4 +4,11 @@
 import { workerData } from 'node:worker_threads';
 import { tsImport } from 'tsx/esm/api';
 
-await tsImport(workerData.entry, import.meta.url);
+// A thread whose event loop looks empty exits (code 0); while the loader works on another
+// thread nothing here is pending, so a timer holds the thread open until the entry listens.
+const hold = setInterval(() => {}, 60_000);
+try {
+  await tsImport(workerData.entry, import.meta.url);
+} finally {
+  clearInterval(hold);
+}

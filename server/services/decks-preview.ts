@@ -41,6 +41,12 @@ function startWorker(): Worker {
   return new Worker(new URL('./decks-preview-boot.mjs', here), { workerData: { ...workerData, entry }, resourceLimits });
 }
 
+class ThreadEnded extends Error {
+  constructor(readonly code: number) {
+    super(`preview thread stopped with exit code ${code} before answering`);
+  }
+}
+
 /**
  * One preview thread per process, kept warm between previews and given one job at a
  * time. A job past its time limit terminates the thread (the next job starts a new one),
@@ -53,7 +59,9 @@ class PreviewThread {
   private idle: NodeJS.Timeout | null = null;
 
   run(files: [string, string][], decks: Deck[], timeMs: number): Promise<PreviewOutcome[]> {
-    const result = this.queue.then(() => this.runNow(files, decks, timeMs));
+    // A thread that ended cleanly without answering (it never took the job) gets one fresh try.
+    const attempt = () => this.runNow(files, decks, timeMs).catch((err: unknown) => (err instanceof ThreadEnded && err.code === 0 ? this.runNow(files, decks, timeMs) : Promise.reject(err)));
+    const result = this.queue.then(attempt);
     this.queue = result.catch(() => undefined);
     return result;
   }
@@ -81,7 +89,7 @@ class PreviewThread {
         const outOfMemory = (err as { code?: string }).code === 'ERR_WORKER_OUT_OF_MEMORY';
         done(() => reject(outOfMemory ? new HttpError(507, 'preview-too-large', 'The preview ran out of memory. Submit a run to check this netlist in the queue.') : err), false);
       };
-      const onExit = (code: number) => done(() => reject(new Error(`preview thread stopped with exit code ${code} before answering`)), false);
+      const onExit = (code: number) => done(() => reject(new ThreadEnded(code)), false);
       const timer = setTimeout(
         () =>
           done(
