@@ -90,7 +90,12 @@ interface CachedCase {
 }
 
 interface CachedStage {
-  inputs: { input: number; corners: { corner: string; vdd: number; cases: CachedCase[]; worstMargin: number; weakestGain: number; models: ModelUse[] }[] }[];
+  inputs: {
+    input: number;
+    corners: { corner: string; vdd: number; cases: CachedCase[]; worstMargin: number; weakestGain: number; models: ModelUse[] }[];
+    /** The corner views, built once, when no case holds an input (they then name no net); null when some case does. */
+    netFree?: CornerAnalysis[] | null;
+  }[];
 }
 
 const memos = new WeakMap<Design, DesignMemo>();
@@ -183,18 +188,17 @@ export function stageCircuit(
   const parts: string[] = [String(vdd)];
   const used = new Map<string, ModelUse>();
   const active = inNetworks(stage);
+  const keyed: string[] = [];
   for (let i = 0; i < stage.elements.length; i++) {
     const el = stage.elements[i];
     if (!active[i]) {
       elements.push({ kind: 'res', conductance: 0 });
-      parts.push('-');
       continue;
     }
     if (el.kind === 'res') {
       const r = cell.others[el.index];
       const g = r.kind === 'res' && r.value > 0 ? 1 / r.value : 0;
       elements.push({ kind: 'res', conductance: g });
-      parts.push(`r${g}`);
       continue;
     }
     const m = cell.mosfets[el.index];
@@ -204,7 +208,25 @@ export function stageCircuit(
     const gate = nodeOf(alias[m.gate]);
     const bulk = nodeOf(alias[m.bulk], m.polarity);
     elements.push({ kind: 'mos', model: resolved.model, beta, gate, bulk });
-    parts.push(`m${beta}|${gate}|${bulk}|${memo ? modelKey(memo, resolved) : ''}`);
+    keyed[i] = memo ? modelKey(memo, resolved) : '';
+  }
+  // Every channel current is proportional to its β (and a resistor's to its conductance), so scaling all of them by one
+  // factor scales the output balance and leaves Vout(Vin) unchanged (but for GMIN, which does not scale: its share of the
+  // balance is about 1e-12 S against the stage's conductance, below the solver tolerances): the key divides by the first.
+  let unit = 0;
+  for (const e of elements) {
+    const size = e.kind === 'mos' ? e.beta : e.conductance;
+    if (size > 0) {
+      unit = size;
+      break;
+    }
+  }
+  const relative = (size: number) => (unit > 0 ? (size / unit).toPrecision(12) : String(size));
+  for (let i = 0; i < elements.length; i++) {
+    const e = elements[i];
+    if (!active[i]) parts.push('-');
+    else if (e.kind === 'res') parts.push(`r${relative(e.conductance)}`);
+    else parts.push(`m${relative(e.beta)}|${e.gate}|${e.bulk}|${keyed[i]}`);
   }
   parts.push(networkKey(pullUp), networkKey(pullDown));
   return {
@@ -355,20 +377,30 @@ class StageAnalysisView implements StageAnalysis {
     const nets = this.stage.inputs;
     const out: InputAnalysis[] = [];
     for (const ci of this.cached.inputs) {
-      const corners: CornerAnalysis[] = [];
-      for (const c of ci.corners) {
-        const cases: TransferCase[] = [];
-        for (const x of c.cases) {
-          const held: HeldInput[] = [];
-          for (const h of x.held) held.push({ net: nets[h.input], high: h.high });
-          cases.push({ held, result: x.result });
-        }
-        corners.push({ corner: c.corner, vdd: c.vdd, cases, worstMargin: cases[c.worstMargin], weakestGain: cases[c.weakestGain], models: c.models });
+      if (ci.netFree === undefined) ci.netFree = ci.corners.every((c) => c.cases.every((x) => x.held.length === 0)) ? cornerViews(ci.corners, nets) : null;
+      if (ci.netFree) {
+        // No held inputs: nothing net-specific below the input, so every stage of the signature shares one set of corner objects.
+        out.push({ input: nets[ci.input], corners: ci.netFree });
+        continue;
       }
-      out.push({ input: nets[ci.input], corners });
+      out.push({ input: nets[ci.input], corners: cornerViews(ci.corners, nets) });
     }
     return out;
   }
+}
+
+function cornerViews(cachedCorners: CachedStage['inputs'][number]['corners'], nets: readonly number[]): CornerAnalysis[] {
+  const corners: CornerAnalysis[] = [];
+  for (const c of cachedCorners) {
+    const cases: TransferCase[] = [];
+    for (const x of c.cases) {
+      const held: HeldInput[] = [];
+      for (const h of x.held) held.push({ net: nets[h.input], high: h.high });
+      cases.push({ held, result: x.result });
+    }
+    corners.push({ corner: c.corner, vdd: c.vdd, cases, worstMargin: cases[c.worstMargin], weakestGain: cases[c.weakestGain], models: c.models });
+  }
+  return corners;
 }
 
 export function analyseStage(env: StageEnvironment, stage: Stage): StageAnalysis {
