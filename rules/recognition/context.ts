@@ -145,7 +145,11 @@ export function adoptChildStages(ctx: CellContext, portRails: readonly (RailKind
   if (!store.has(key)) return;
   const donor = childContext(ctx.design, ctx.deck, ctx.cell.key, portRails)!;
   const base = stagesOf(donor);
-  ctx.memo<CellStages>(STAGES_MEMO_KEY, () => ({ ...base, stages: base.stages.slice() }));
+  const own = ctx.memo<CellStages>(STAGES_MEMO_KEY, () => ({ ...base, stages: base.stages.slice() }));
+  // Same cell, same rails: the donor's net index holds here too, and so do its stage lists, since clock tracing only
+  // turns clocked stages into dynamic ones (ids, inputs, elements and pass stages stay). Built once, not twice, for a big flat cell.
+  ctx.memo<NetIndex>(NET_INDEX_MEMO_KEY, () => netIndex(donor));
+  ctx.memo<CellIndex>(CELL_INDEX_MEMO_KEY, () => ({ ...cellIndex(donor), stages: own }));
 }
 
 /** Rails of an instance's pins as its parent sees them. */
@@ -254,9 +258,12 @@ function zeroOhmAlias(cell: Cell): Int32Array {
   return alias;
 }
 
+const NET_INDEX_MEMO_KEY = 'recognition.net-index';
+const CELL_INDEX_MEMO_KEY = 'recognition.index';
+
 /** Nets, devices and pins of a context, indexed by net, without extracting its stages. */
 export function netIndex(ctx: CellContext): NetIndex {
-  return ctx.memo('recognition.net-index', () => {
+  return ctx.memo(NET_INDEX_MEMO_KEY, () => {
     const cell = ctx.cell;
     const alias = zeroOhmAlias(cell);
     const n = cell.nets.length;
@@ -301,7 +308,7 @@ export function netIndex(ctx: CellContext): NetIndex {
 
 /** Nets, devices, pins and stages of a context, indexed by net. */
 export function cellIndex(ctx: CellContext): CellIndex {
-  return ctx.memo('recognition.index', () => {
+  return ctx.memo(CELL_INDEX_MEMO_KEY, () => {
     const stages = stagesOf(ctx);
     const light = netIndex(ctx);
     const n = ctx.cell.nets.length;
