@@ -188,17 +188,18 @@ export function stageCircuit(
   const parts: string[] = [String(vdd)];
   const used = new Map<string, ModelUse>();
   const active = inNetworks(stage);
-  const keyed: string[] = [];
   for (let i = 0; i < stage.elements.length; i++) {
     const el = stage.elements[i];
     if (!active[i]) {
       elements.push({ kind: 'res', conductance: 0 });
+      parts.push('-');
       continue;
     }
     if (el.kind === 'res') {
       const r = cell.others[el.index];
       const g = r.kind === 'res' && r.value > 0 ? 1 / r.value : 0;
       elements.push({ kind: 'res', conductance: g });
+      parts.push(`r${g}`);
       continue;
     }
     const m = cell.mosfets[el.index];
@@ -208,25 +209,7 @@ export function stageCircuit(
     const gate = nodeOf(alias[m.gate]);
     const bulk = nodeOf(alias[m.bulk], m.polarity);
     elements.push({ kind: 'mos', model: resolved.model, beta, gate, bulk });
-    keyed[i] = memo ? modelKey(memo, resolved) : '';
-  }
-  // Every channel current is proportional to its β (and a resistor's to its conductance), so scaling all of them by one
-  // factor scales the output balance and leaves Vout(Vin) unchanged (but for GMIN, which does not scale: its share of the
-  // balance is about 1e-12 S against the stage's conductance, below the solver tolerances): the key divides by the first.
-  let unit = 0;
-  for (const e of elements) {
-    const size = e.kind === 'mos' ? e.beta : e.conductance;
-    if (size > 0) {
-      unit = size;
-      break;
-    }
-  }
-  const relative = (size: number) => (unit > 0 ? (size / unit).toPrecision(12) : String(size));
-  for (let i = 0; i < elements.length; i++) {
-    const e = elements[i];
-    if (!active[i]) parts.push('-');
-    else if (e.kind === 'res') parts.push(`r${relative(e.conductance)}`);
-    else parts.push(`m${relative(e.beta)}|${e.gate}|${e.bulk}|${keyed[i]}`);
+    parts.push(`m${beta}|${gate}|${bulk}|${memo ? modelKey(memo, resolved) : ''}`);
   }
   parts.push(networkKey(pullUp), networkKey(pullDown));
   return {
