@@ -6,8 +6,8 @@
 import { describe, expect, it } from 'vitest';
 import { defaultDeck } from '../../rules/default-deck';
 import { checkDesign } from '../../rules/engine';
-import { cellIndex, makeContext } from '../../rules/recognition/context';
-import { stageAnalysesOf, stagesOf } from '../../rules/stages';
+import { cellIndex, makeContext, stageEnvironmentOf } from '../../rules/recognition/context';
+import { stageAnalysesOf, stageSignature, stagesOf } from '../../rules/stages';
 import type { CellContext, RuleModule } from '../../rules/types';
 import type { CellIndex } from '../../rules/recognition/context';
 import { read } from './support';
@@ -103,5 +103,33 @@ describe('shared analyses of a flat cell under a parent', () => {
       expect(g.nml).toBe(r.nml);
       expect(got[i].worstMargin.held).toEqual([]);
     }
+  });
+});
+
+describe('stage signatures (the key under which stages share one analysis)', () => {
+  // Two-input NANDs in the style of any static CMOS library: equal structure on other nets must share a key,
+  // and any change the DC curve depends on (a width, a length, a multiplier, the model, a gate's or body's role, the topology) must not.
+  const nandLines = (tag: string, a: string, b: string, y: string, over: Record<string, string> = {}) => [
+    `Mna${tag} ${y} ${a} s${tag} ${over.bulk ?? 'vss'} ${over.model ?? 'nch'} w=${over.w ?? '0.65'} l=${over.l ?? '0.15'} m=${over.m ?? '1'}`,
+    `Mnb${tag} s${tag} ${over.gateB ?? b} vss vss nch w=0.65 l=0.15`,
+    `Mpa${tag} ${y} ${a} vdd vdd pch w=0.42 l=0.15`,
+    `Mpb${tag} ${y} ${over.gateB ?? b} vdd vdd pch w=0.42 l=0.15`,
+  ];
+  const signatureOf = (lines: string[], out: string) => {
+    const text = ['.option scale=1e-6', '.subckt sig a b c d y1 y2 vdd vss', ...lines, '.ends sig', '.end'].join('\n');
+    const deck = defaultDeck();
+    const design = read(text, deck);
+    const cell = design.cells.get('sig')!;
+    const ctx = makeContext(design, deck, cell, cell.nets.map((x) => (x === 'vdd' ? 'power' : x === 'vss' ? 'ground' : undefined)));
+    const stage = stagesOf(ctx).stages.find((s) => s.output === cell.netIndex.get(out))!;
+    return stageSignature(stageEnvironmentOf(ctx), stage);
+  };
+  it('equal for equal structure on other nets, different for every change a transfer curve depends on', () => {
+    const reference = signatureOf([...nandLines('1', 'a', 'b', 'y1'), ...nandLines('2', 'c', 'd', 'y2')], 'y1');
+    expect(signatureOf([...nandLines('1', 'a', 'b', 'y1'), ...nandLines('2', 'c', 'd', 'y2')], 'y2')).toBe(reference);
+    const variants: Record<string, string>[] = [{ w: '0.84' }, { l: '0.18' }, { m: '2' }, { model: 'nch_lvt' }, { bulk: 'vdd' }, { gateB: 'a' }];
+    const keys = variants.map((over) => signatureOf(nandLines('1', 'a', 'b', 'y1', over), 'y1'));
+    for (const k of keys) expect(k).not.toBe(reference);
+    expect(new Set(keys).size).toBe(keys.length);
   });
 });
