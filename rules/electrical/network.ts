@@ -146,10 +146,7 @@ export class NetworkEvaluator {
       case 'series': {
         let simple = true;
         for (const c of n.children) if (!isSimple(c)) simple = false;
-        if (simple) {
-          const newton = this.leafStack(n);
-          if (newton !== null) return newton;
-        }
+        if (simple && this.leafStack(n)) return this.stackCurrent;
         return n.children.length === 2 ? this.pair(n) : this.stack(n);
       }
     }
@@ -160,9 +157,10 @@ export class NetworkEvaluator {
    * Jacobian from analytic device slopes), warm-started from the nodes' previous voltages.
    * Returns null when Newton does not converge inside the bracket; the caller then falls
    * back to the bracketed solve. An element that is off whatever its node voltages makes
-   * the stack current zero at once.
+   * the stack current zero at once. The current goes to `stackCurrent` (a number returned from a
+   * call that is not inlined is boxed on the heap, and this runs millions of times).
    */
-  private leafStack(n: Series): number | null {
+  private leafStack(n: Series): boolean {
     const v = this.v;
     const va = v[n.a];
     const vb = v[n.b];
@@ -171,7 +169,8 @@ export class NetworkEvaluator {
     const hi = Math.max(va, vb);
     if (va === vb || this.anyAlwaysOff(n)) {
       this.fillNodes(n, lo);
-      return 0;
+      this.stackCurrent = 0;
+      return true;
     }
     const m = k - 1;
     const x = this.scratch(m);
@@ -215,17 +214,17 @@ export class NetworkEvaluator {
       }
       // Thomas algorithm.
       for (let j = 1; j < m; j++) {
-        if (diag[j - 1] === 0) return null;
+        if (diag[j - 1] === 0) return false;
         const w = lower[j] / diag[j - 1];
         diag[j] -= w * upper[j - 1];
         rhs[j] -= w * rhs[j - 1];
       }
-      if (diag[m - 1] === 0) return null;
+      if (diag[m - 1] === 0) return false;
       rhs[m - 1] /= diag[m - 1];
       for (let j = m - 2; j >= 0; j--) rhs[j] = (rhs[j] - upper[j] * rhs[j + 1]) / diag[j];
       for (let j = 0; j < m; j++) {
         let step = rhs[j];
-        if (!Number.isFinite(step)) return null;
+        if (!Number.isFinite(step)) return false;
         // Limit a step to a fraction of the span so a cut-off region cannot throw the node out of the stack.
         const cap = 0.25 * (hi - lo);
         if (step > cap) step = cap;
@@ -240,11 +239,15 @@ export class NetworkEvaluator {
         for (let j = 0; j < m; j++) v[n.nodes[j]] = x[j];
         let sum = 0;
         for (let j = 0; j < k; j++) sum += this.current(n.children[j]);
-        return sum / k;
+        this.stackCurrent = sum / k;
+        return true;
       }
     }
-    return null;
+    return false;
   }
+
+  /** Current of the stack `leafStack` last solved. */
+  private stackCurrent = 0;
 
   private readonly work = {
     cur: new Float64Array(64),
