@@ -87,6 +87,11 @@ export function designMemo<T>(design: Design, deck: Deck, key: string, compute: 
   return store.get(key) as T;
 }
 
+/** `localRails` of a cell, computed once per design and deck (callers copy it before adding port rails). */
+export function localRailsOf(design: Design, deck: Deck, cell: Cell): readonly (RailKind | undefined)[] {
+  return designMemo(design, deck, `local-rails|${cell.key}`, () => localRails(design, cell, deck));
+}
+
 export interface ContextOptions {
   instances?: number;
   signals?: readonly (PortSignal | undefined)[];
@@ -117,7 +122,7 @@ export function childContext(design: Design, deck: Deck, cellKey: string, portRa
   const cell = design.cells.get(cellKey);
   if (!cell) return null;
   return designMemo(design, deck, childKey(cellKey, portRails), () => {
-    const base = designMemo(design, deck, `local-rails|${cellKey}`, () => localRails(design, cell, deck));
+    const base = localRailsOf(design, deck, cell);
     const rails = base.slice();
     cell.ports.forEach((net, i) => {
       if (rails[net] === undefined && portRails[i] !== undefined) rails[net] = portRails[i];
