@@ -12,7 +12,7 @@ import type { Finding, CheckSummary } from '../shared/findings';
 import { fingerprint } from './fingerprint';
 import { ruleRegistry } from './registry';
 import type { CellContext, PortSignal, RawFinding, RuleModule } from './types';
-import { adoptChildStages, cellIndex, localRails } from './recognition/context';
+import { adoptChildStages, cellIndex, localRails, localRailsOf } from './recognition/context';
 import { primeClockHint, timingOf, timingSignature } from './recognition/timing';
 
 export { localRails };
@@ -67,7 +67,7 @@ export function checkDesign(design: Design, deck: Deck, options: CheckOptions = 
   for (const key of order) {
     const cell = design.cells.get(key);
     if (!cell) continue;
-    const base = localRails(design, cell, deck);
+    const base = localRailsOf(design, deck, cell);
     const cellContexts = contexts.get(key) ?? new Map([['', { rails: [], signals: [], count: counts.get(key) ?? 1 }]]);
     const isRoot = design.roots.includes(key);
     for (const context of cellContexts.values()) {

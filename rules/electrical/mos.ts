@@ -73,16 +73,19 @@ const partials = new Float64Array(4);
 
 function nChannelSlopes(m: MosModel, beta: number, va: number, vb: number, vg: number, vbulk: number, out: Float64Array): void {
   if (va >= vb) {
+    // Indexed reads: destructuring a typed array goes through its iterator, which allocates on this hot path.
     forwardPartials(m, beta, vg - vb, va - vb, vb - vbulk, partials);
-    const [i, gs, ds, sb] = partials;
-    out[0] = i;
+    const gs = partials[1];
+    const ds = partials[2];
+    out[0] = partials[0];
     out[1] = ds;
-    out[2] = -gs - ds + sb;
+    out[2] = -gs - ds + partials[3];
   } else {
     forwardPartials(m, beta, vg - va, vb - va, va - vbulk, partials);
-    const [i, gs, ds, sb] = partials;
-    out[0] = -i;
-    out[1] = gs + ds - sb;
+    const gs = partials[1];
+    const ds = partials[2];
+    out[0] = -partials[0];
+    out[1] = gs + ds - partials[3];
     out[2] = -ds;
   }
 }
@@ -126,4 +129,94 @@ function forwardPartials(m: MosModel, beta: number, vgs: number, vds: number, vs
   out[1] = beta * dqGt * mod;
   out[2] = beta * (dqDs * mod + q * m.lambda);
   out[3] = -out[1] * dvt;
+}
+
+// The same currents and slopes read from a node-voltage array by node index. A call that passes voltages as numbers
+// boxes each one on the heap unless the compiler inlines it, and the network solver makes millions of these calls;
+// indices pass unboxed. The arithmetic is that of the functions above, operation for operation.
+
+/** `channelCurrent` with its voltages `v[a]`, `v[b]`, `v[g]`, `v[bulk]`. */
+export function channelCurrentAt(m: MosModel, beta: number, v: Float64Array, a: number, b: number, g: number, bulk: number): number {
+  const p = m.polarity === 'p';
+  const va = p ? -v[a] : v[a];
+  const vb = p ? -v[b] : v[b];
+  const vg = p ? -v[g] : v[g];
+  const vbulk = p ? -v[bulk] : v[bulk];
+  const forward = va >= vb;
+  const vs = forward ? vb : va;
+  const vgs = vg - vs;
+  const vds = forward ? va - vb : vb - va;
+  const vsb = vs - vbulk;
+  const vt = m.gamma === 0 ? m.vt0 : m.vt0 + m.gamma * (Math.sqrt(Math.max(m.phi2F + vsb, 0)) - Math.sqrt(m.phi2F));
+  const vgt = vgs - vt;
+  let i = 0;
+  if (vgt > 0) {
+    let vmin = vds < vgt ? vds : vgt;
+    if (m.kind === 'velocity-saturated' && m.vdsat < vmin) vmin = m.vdsat;
+    i = beta * (vgt * vmin - 0.5 * vmin * vmin) * (1 + m.lambda * vds);
+  }
+  const n = forward ? i : -i;
+  return p ? -n : n;
+}
+
+/** `channelCurrentSlopes` with its voltages `v[a]`, `v[b]`, `v[g]`, `v[bulk]`. */
+export function channelCurrentSlopesAt(m: MosModel, beta: number, v: Float64Array, a: number, b: number, g: number, bulk: number, out: Float64Array): void {
+  const p = m.polarity === 'p';
+  const va = p ? -v[a] : v[a];
+  const vb = p ? -v[b] : v[b];
+  const vg = p ? -v[g] : v[g];
+  const vbulk = p ? -v[bulk] : v[bulk];
+  const forward = va >= vb;
+  const vs = forward ? vb : va;
+  const vgs = vg - vs;
+  const vds = forward ? va - vb : vb - va;
+  const vsb = vs - vbulk;
+  let dvt = 0;
+  let vt = m.vt0;
+  if (m.gamma !== 0) {
+    const root = m.phi2F + vsb;
+    if (root > 0) {
+      const sq = Math.sqrt(root);
+      vt += m.gamma * (sq - Math.sqrt(m.phi2F));
+      dvt = m.gamma / (2 * sq);
+    } else vt -= m.gamma * Math.sqrt(m.phi2F);
+  }
+  const vgt = vgs - vt;
+  let i = 0;
+  let gs = 0;
+  let ds = 0;
+  let sb = 0;
+  if (vgt > 0) {
+    const mod = 1 + m.lambda * vds;
+    let q: number;
+    let dqGt: number;
+    let dqDs: number;
+    if (m.kind === 'velocity-saturated' && m.vdsat < vgt && m.vdsat < vds) {
+      q = vgt * m.vdsat - 0.5 * m.vdsat * m.vdsat;
+      dqGt = m.vdsat;
+      dqDs = 0;
+    } else if (vds < vgt) {
+      q = vgt * vds - 0.5 * vds * vds;
+      dqGt = vds;
+      dqDs = vgt - vds;
+    } else {
+      q = 0.5 * vgt * vgt;
+      dqGt = vgt;
+      dqDs = 0;
+    }
+    i = beta * q * mod;
+    gs = beta * dqGt * mod;
+    ds = beta * (dqDs * mod + q * m.lambda);
+    sb = -gs * dvt;
+  }
+  if (forward) {
+    out[0] = i;
+    out[1] = ds;
+    out[2] = -gs - ds + sb;
+  } else {
+    out[0] = -i;
+    out[1] = gs + ds - sb;
+    out[2] = -ds;
+  }
+  if (p) out[0] = -out[0];
 }

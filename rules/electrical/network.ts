@@ -15,7 +15,7 @@
 // bracket holds exactly one root.
 
 import { brentNear } from './roots';
-import { channelCurrent, channelCurrentSlopes, thresholdVoltage, type MosModel } from './mos';
+import { channelCurrentAt, channelCurrentSlopesAt, type MosModel } from './mos';
 
 const slopes = new Float64Array(3);
 
@@ -146,10 +146,7 @@ export class NetworkEvaluator {
       case 'series': {
         let simple = true;
         for (const c of n.children) if (!isSimple(c)) simple = false;
-        if (simple) {
-          const newton = this.leafStack(n);
-          if (newton !== null) return newton;
-        }
+        if (simple && this.leafStack(n)) return this.stackCurrent;
         return n.children.length === 2 ? this.pair(n) : this.stack(n);
       }
     }
@@ -160,18 +157,20 @@ export class NetworkEvaluator {
    * Jacobian from analytic device slopes), warm-started from the nodes' previous voltages.
    * Returns null when Newton does not converge inside the bracket; the caller then falls
    * back to the bracketed solve. An element that is off whatever its node voltages makes
-   * the stack current zero at once.
+   * the stack current zero at once. The current goes to `stackCurrent` (a number returned from a
+   * call that is not inlined is boxed on the heap, and this runs millions of times).
    */
-  private leafStack(n: Series): number | null {
+  private leafStack(n: Series): boolean {
     const v = this.v;
     const va = v[n.a];
     const vb = v[n.b];
     const k = n.children.length;
     const lo = Math.min(va, vb);
     const hi = Math.max(va, vb);
-    if (va === vb || this.anyAlwaysOff(n, lo, hi)) {
+    if (va === vb || this.anyAlwaysOff(n)) {
       this.fillNodes(n, lo);
-      return 0;
+      this.stackCurrent = 0;
+      return true;
     }
     const m = k - 1;
     const x = this.scratch(m);
@@ -215,17 +214,17 @@ export class NetworkEvaluator {
       }
       // Thomas algorithm.
       for (let j = 1; j < m; j++) {
-        if (diag[j - 1] === 0) return null;
+        if (diag[j - 1] === 0) return false;
         const w = lower[j] / diag[j - 1];
         diag[j] -= w * upper[j - 1];
         rhs[j] -= w * rhs[j - 1];
       }
-      if (diag[m - 1] === 0) return null;
+      if (diag[m - 1] === 0) return false;
       rhs[m - 1] /= diag[m - 1];
       for (let j = m - 2; j >= 0; j--) rhs[j] = (rhs[j] - upper[j] * rhs[j + 1]) / diag[j];
       for (let j = 0; j < m; j++) {
         let step = rhs[j];
-        if (!Number.isFinite(step)) return null;
+        if (!Number.isFinite(step)) return false;
         // Limit a step to a fraction of the span so a cut-off region cannot throw the node out of the stack.
         const cap = 0.25 * (hi - lo);
         if (step > cap) step = cap;
@@ -240,11 +239,15 @@ export class NetworkEvaluator {
         for (let j = 0; j < m; j++) v[n.nodes[j]] = x[j];
         let sum = 0;
         for (let j = 0; j < k; j++) sum += this.current(n.children[j]);
-        return sum / k;
+        this.stackCurrent = sum / k;
+        return true;
       }
     }
-    return null;
+    return false;
   }
+
+  /** Current of the stack `leafStack` last solved. */
+  private stackCurrent = 0;
 
   private readonly work = {
     cur: new Float64Array(64),
@@ -276,37 +279,41 @@ export class NetworkEvaluator {
       slopes[2] = -e.conductance;
       return;
     }
-    channelCurrentSlopes(e.model, e.beta, v[a], v[b], v[e.gate], v[e.bulk], slopes);
+    channelCurrentSlopesAt(e.model, e.beta, v, a, b, e.gate, e.bulk, slopes);
   }
 
-  /** Whether some element of the stack (a device, or every device of a parallel group) cannot conduct for any node voltages inside [lo, hi]. */
-  private anyAlwaysOff(n: Series, lo: number, hi: number): boolean {
+  /**
+   * Whether some element of the stack (a device, or every device of a parallel group) cannot conduct for any node voltages
+   * between the stack's ends. The ends are read here, not passed: numbers passed to a call that is not inlined are boxed.
+   */
+  private anyAlwaysOff(n: Series): boolean {
     for (const c of n.children) {
       if (c.kind === 'leaf') {
-        if (this.leafAlwaysOff(c.element, n, lo, hi)) return true;
+        if (this.leafAlwaysOff(c.element, n)) return true;
       } else if (c.kind === 'parallel') {
         let all = true;
-        for (const leaf of c.children) if (leaf.kind !== 'leaf' || !this.leafAlwaysOff(leaf.element, n, lo, hi)) all = false;
+        for (const leaf of c.children) if (leaf.kind !== 'leaf' || !this.leafAlwaysOff(leaf.element, n)) all = false;
         if (all) return true;
       }
     }
     return false;
   }
 
-  private leafAlwaysOff(element: number, n: Series, lo: number, hi: number): boolean {
+  private leafAlwaysOff(element: number, n: Series): boolean {
     const v = this.v;
-    {
-      const e = this.elements[element];
-      if (e.kind !== 'mos') return false;
-      // The most favourable source is the stack's low end (n-channel) or high end (p-channel); the body effect only raises VT from there.
-      const gate = v[e.gate];
-      if (e.gate === n.a || e.gate === n.b || n.nodes.indexOf(e.gate) >= 0) return false;
-      const drive =
-        e.model.polarity === 'n'
-          ? gate - lo - thresholdVoltage(e.model, lo - v[e.bulk])
-          : hi - gate - thresholdVoltage(e.model, v[e.bulk] - hi);
-      return drive <= 0;
-    }
+    const e = this.elements[element];
+    if (e.kind !== 'mos') return false;
+    if (e.gate === n.a || e.gate === n.b || n.nodes.indexOf(e.gate) >= 0) return false;
+    const lo = Math.min(v[n.a], v[n.b]);
+    const hi = Math.max(v[n.a], v[n.b]);
+    // The most favourable source is the stack's low end (n-channel) or high end (p-channel); the body effect only raises VT from there.
+    // VT as thresholdVoltage computes it, written out so that no number crosses a call.
+    const m = e.model;
+    const gate = v[e.gate];
+    const vsb = m.polarity === 'n' ? lo - v[e.bulk] : v[e.bulk] - hi;
+    const vt = m.gamma === 0 ? m.vt0 : m.vt0 + m.gamma * (Math.sqrt(Math.max(m.phi2F + vsb, 0)) - Math.sqrt(m.phi2F));
+    const drive = m.polarity === 'n' ? gate - lo - vt : hi - gate - vt;
+    return drive <= 0;
   }
 
   private leaf(index: number, a: number, b: number): number {
@@ -314,7 +321,7 @@ export class NetworkEvaluator {
     const e = this.elements[index];
     const v = this.v;
     if (e.kind === 'res') return (v[a] - v[b]) * e.conductance;
-    return channelCurrent(e.model, e.beta, v[a], v[b], v[e.gate], v[e.bulk]);
+    return channelCurrentAt(e.model, e.beta, v, a, b, e.gate, e.bulk);
   }
 
   private solverFor(n: Series): SeriesSolver {
@@ -429,6 +436,8 @@ export class NetworkEvaluator {
   }
 
   private fillNodes(n: Network, value: number) {
-    for (const node of networkNodes(n)) this.v[node] = value;
+    if (n.kind === 'leaf') return;
+    if (n.kind === 'series') for (const node of n.nodes) this.v[node] = value;
+    for (const c of n.children) this.fillNodes(c, value);
   }
 }

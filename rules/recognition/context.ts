@@ -87,6 +87,11 @@ export function designMemo<T>(design: Design, deck: Deck, key: string, compute: 
   return store.get(key) as T;
 }
 
+/** `localRails` of a cell, computed once per design and deck (callers copy it before adding port rails). */
+export function localRailsOf(design: Design, deck: Deck, cell: Cell): readonly (RailKind | undefined)[] {
+  return designMemo(design, deck, `local-rails|${cell.key}`, () => localRails(design, cell, deck));
+}
+
 export interface ContextOptions {
   instances?: number;
   signals?: readonly (PortSignal | undefined)[];
@@ -117,7 +122,7 @@ export function childContext(design: Design, deck: Deck, cellKey: string, portRa
   const cell = design.cells.get(cellKey);
   if (!cell) return null;
   return designMemo(design, deck, childKey(cellKey, portRails), () => {
-    const base = designMemo(design, deck, `local-rails|${cellKey}`, () => localRails(design, cell, deck));
+    const base = localRailsOf(design, deck, cell);
     const rails = base.slice();
     cell.ports.forEach((net, i) => {
       if (rails[net] === undefined && portRails[i] !== undefined) rails[net] = portRails[i];
@@ -145,7 +150,11 @@ export function adoptChildStages(ctx: CellContext, portRails: readonly (RailKind
   if (!store.has(key)) return;
   const donor = childContext(ctx.design, ctx.deck, ctx.cell.key, portRails)!;
   const base = stagesOf(donor);
-  ctx.memo<CellStages>(STAGES_MEMO_KEY, () => ({ ...base, stages: base.stages.slice() }));
+  const own = ctx.memo<CellStages>(STAGES_MEMO_KEY, () => ({ ...base, stages: base.stages.slice() }));
+  // Same cell, same rails: the donor's net index holds here too, and so do its stage lists, since clock tracing only
+  // turns clocked stages into dynamic ones (ids, inputs, elements and pass stages stay). Built once, not twice, for a big flat cell.
+  ctx.memo<NetIndex>(NET_INDEX_MEMO_KEY, () => netIndex(donor));
+  ctx.memo<CellIndex>(CELL_INDEX_MEMO_KEY, () => ({ ...cellIndex(donor), stages: own }));
 }
 
 /** Rails of an instance's pins as its parent sees them. */
@@ -254,9 +263,12 @@ function zeroOhmAlias(cell: Cell): Int32Array {
   return alias;
 }
 
+const NET_INDEX_MEMO_KEY = 'recognition.net-index';
+const CELL_INDEX_MEMO_KEY = 'recognition.index';
+
 /** Nets, devices and pins of a context, indexed by net, without extracting its stages. */
 export function netIndex(ctx: CellContext): NetIndex {
-  return ctx.memo('recognition.net-index', () => {
+  return ctx.memo(NET_INDEX_MEMO_KEY, () => {
     const cell = ctx.cell;
     const alias = zeroOhmAlias(cell);
     const n = cell.nets.length;
@@ -301,7 +313,7 @@ export function netIndex(ctx: CellContext): NetIndex {
 
 /** Nets, devices, pins and stages of a context, indexed by net. */
 export function cellIndex(ctx: CellContext): CellIndex {
-  return ctx.memo('recognition.index', () => {
+  return ctx.memo(CELL_INDEX_MEMO_KEY, () => {
     const stages = stagesOf(ctx);
     const light = netIndex(ctx);
     const n = ctx.cell.nets.length;

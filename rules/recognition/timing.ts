@@ -64,6 +64,11 @@ export function timingSignature(t: Timing | undefined): string {
   return t ? `${t.phase}:${t.low}${t.high}${t.kind[0]}` : '';
 }
 
+/** `timingSignature(a) === timingSignature(b)`, without building the strings (clock tracing compares on every assignment). */
+function sameSignature(a: Timing, b: Timing): boolean {
+  return a.phase === b.phase && a.low === b.low && a.high === b.high && a.kind[0] === b.kind[0];
+}
+
 export function describeTiming(t: Timing): string {
   const polarity = t.low === 0 && t.high === 1 ? 'true' : t.low === 1 && t.high === 0 ? 'inverted' : null;
   const levels = `${t.low === UNKNOWN ? '?' : t.low} while ${t.phase} is low, ${t.high === UNKNOWN ? '?' : t.high} while high`;
@@ -244,7 +249,7 @@ function propagate(ctx: CellContext, index: CellIndex, seeds: readonly Seed[], s
   const assign = (net: number, t: Timing | undefined) => {
     if (!t || index.railOf(net) || hard[net]) return;
     const old = timing[net];
-    if (old && timingSignature(old) === timingSignature(t)) {
+    if (old && sameSignature(old, t)) {
       named[net] = 0;
       return;
     }

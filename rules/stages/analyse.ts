@@ -11,7 +11,7 @@
 import type { Cell, Design, RailKind } from '../../grammar/design';
 import type { Corner, Deck } from '../../shared/deck';
 import type { CircuitElement, Network } from '../electrical/network';
-import { mapNetwork, networkElements } from '../electrical/network';
+import { mapNetwork } from '../electrical/network';
 import { ModelResolver, type ResolvedModel } from '../electrical/parameters';
 import { analyseTransfer, FIRST_INTERNAL, GROUND, INPUT, OUTPUT, POWER, TransferSolver, type StageCircuit, type TransferResult } from '../electrical/transfer';
 import { outputValue, stageLogic } from './classify';
@@ -90,7 +90,12 @@ interface CachedCase {
 }
 
 interface CachedStage {
-  inputs: { input: number; corners: { corner: string; vdd: number; cases: CachedCase[]; worstMargin: number; weakestGain: number; models: ModelUse[] }[] }[];
+  inputs: {
+    input: number;
+    corners: { corner: string; vdd: number; cases: CachedCase[]; worstMargin: number; weakestGain: number; models: ModelUse[] }[];
+    /** The corner views, built once, when no case holds an input (they then name no net); null when some case does. */
+    netFree?: CornerAnalysis[] | null;
+  }[];
 }
 
 const memos = new WeakMap<Design, DesignMemo>();
@@ -135,9 +140,14 @@ function networkKey(n: Network): string {
 /** Which of a stage's elements sit in its pull-up or pull-down network (others, such as a dangling pass gate, carry no output current). */
 export function inNetworks(stage: Stage): Uint8Array {
   const mask = new Uint8Array(stage.elements.length);
-  if (stage.pullUp) for (const e of networkElements(stage.pullUp)) mask[e] = 1;
-  if (stage.pullDown) for (const e of networkElements(stage.pullDown)) mask[e] = 1;
+  if (stage.pullUp) markElements(stage.pullUp, mask);
+  if (stage.pullDown) markElements(stage.pullDown, mask);
   return mask;
+}
+
+function markElements(n: Network, mask: Uint8Array): void {
+  if (n.kind === 'leaf') mask[n.element] = 1;
+  else for (const c of n.children) markElements(c, mask);
 }
 
 export interface StageEnvironment {
@@ -266,7 +276,8 @@ export function marginOf(r: TransferResult): number {
  */
 export function stageSignature(env: StageEnvironment, stage: Stage): string {
   const { cell, railOf, alias } = env;
-  const local = new Map<number, string>();
+  // Built by appending to one string, with internal nodes numbered in a small list: this runs once per stage of a flat netlist.
+  const local: number[] = [];
   const role = (net: number): string => {
     if (net === POWER_END) return 'P';
     if (net === GROUND_END) return 'G';
@@ -275,33 +286,49 @@ export function stageSignature(env: StageEnvironment, stage: Stage): string {
     if (net === stage.output) return 'o';
     const i = stage.inputs.indexOf(net);
     if (i >= 0) return 'i' + i;
-    let x = local.get(net);
-    if (x === undefined) local.set(net, (x = 'n' + local.size));
-    return x;
+    let x = local.indexOf(net);
+    if (x < 0) x = local.push(net) - 1;
+    return 'n' + x;
   };
-  const parts: string[] = [stage.kind];
+  let key: string = stage.kind;
   const active = inNetworks(stage);
   for (let i = 0; i < stage.elements.length; i++) {
     const el = stage.elements[i];
     if (!active[i]) {
-      parts.push('-');
+      key += ';-';
       continue;
     }
     if (el.kind === 'res') {
       const r = cell.others[el.index];
-      parts.push('r' + (r.kind === 'res' ? r.value : 0));
+      key += ';r' + (r.kind === 'res' ? r.value : 0);
     } else {
       const m = cell.mosfets[el.index];
-      parts.push(`${m.polarity}${m.w},${m.l},${m.m},${m.model.toLowerCase()},${role(alias[m.gate])},${role(alias[m.bulk])}`);
+      key += ';' + m.polarity + m.w + ',' + m.l + ',' + m.m + ',' + lowerCase(m.model) + ',' + role(alias[m.gate]) + ',' + role(alias[m.bulk]);
     }
   }
   const shape = (n: Network): string => {
-    if (n.kind === 'leaf') return `${n.element}:${role(n.a)}-${role(n.b)}`;
-    const inner = n.children.map(shape).join(' ');
-    return n.kind === 'series' ? `S(${inner})[${n.nodes.map(role).join(',')}]` : `P(${inner})`;
+    if (n.kind === 'leaf') return n.element + ':' + role(n.a) + '-' + role(n.b);
+    let inner = '';
+    for (let i = 0; i < n.children.length; i++) inner += (i ? ' ' : '') + shape(n.children[i]);
+    if (n.kind === 'parallel') return 'P(' + inner + ')';
+    let nodes = '';
+    for (let i = 0; i < n.nodes.length; i++) nodes += (i ? ',' : '') + role(n.nodes[i]);
+    return 'S(' + inner + ')[' + nodes + ']';
   };
-  parts.push(stage.pullUp ? shape(stage.pullUp) : '-', stage.pullDown ? shape(stage.pullDown) : '-');
-  return parts.join(';');
+  key += ';' + (stage.pullUp ? shape(stage.pullUp) : '-') + ';' + (stage.pullDown ? shape(stage.pullDown) : '-');
+  return key;
+}
+
+const lowerNames = new Map<string, string>();
+
+/** Model names in lower case, converted once per distinct name. */
+function lowerCase(name: string): string {
+  let lower = lowerNames.get(name);
+  if (lower === undefined) {
+    lower = name.toLowerCase();
+    if (lowerNames.size < 4096) lowerNames.set(name, lower);
+  }
+  return lower;
 }
 
 function solveStage(env: StageEnvironment, stage: Stage, memo: DesignMemo): CachedStage {
@@ -355,20 +382,30 @@ class StageAnalysisView implements StageAnalysis {
     const nets = this.stage.inputs;
     const out: InputAnalysis[] = [];
     for (const ci of this.cached.inputs) {
-      const corners: CornerAnalysis[] = [];
-      for (const c of ci.corners) {
-        const cases: TransferCase[] = [];
-        for (const x of c.cases) {
-          const held: HeldInput[] = [];
-          for (const h of x.held) held.push({ net: nets[h.input], high: h.high });
-          cases.push({ held, result: x.result });
-        }
-        corners.push({ corner: c.corner, vdd: c.vdd, cases, worstMargin: cases[c.worstMargin], weakestGain: cases[c.weakestGain], models: c.models });
+      if (ci.netFree === undefined) ci.netFree = ci.corners.every((c) => c.cases.every((x) => x.held.length === 0)) ? cornerViews(ci.corners, nets) : null;
+      if (ci.netFree) {
+        // No held inputs: nothing net-specific below the input, so every stage of the signature shares one set of corner objects.
+        out.push({ input: nets[ci.input], corners: ci.netFree });
+        continue;
       }
-      out.push({ input: nets[ci.input], corners });
+      out.push({ input: nets[ci.input], corners: cornerViews(ci.corners, nets) });
     }
     return out;
   }
+}
+
+function cornerViews(cachedCorners: CachedStage['inputs'][number]['corners'], nets: readonly number[]): CornerAnalysis[] {
+  const corners: CornerAnalysis[] = [];
+  for (const c of cachedCorners) {
+    const cases: TransferCase[] = [];
+    for (const x of c.cases) {
+      const held: HeldInput[] = [];
+      for (const h of x.held) held.push({ net: nets[h.input], high: h.high });
+      cases.push({ held, result: x.result });
+    }
+    corners.push({ corner: c.corner, vdd: c.vdd, cases, worstMargin: cases[c.worstMargin], weakestGain: cases[c.weakestGain], models: c.models });
+  }
+  return corners;
 }
 
 export function analyseStage(env: StageEnvironment, stage: Stage): StageAnalysis {

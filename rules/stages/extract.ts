@@ -257,7 +257,7 @@ export function extractStages(cell: Cell, rails: readonly (RailKind | undefined)
       if (g) g.push(info);
       else driverBlocks.set(o, [info]);
     } else if (info.observed.length >= 2 && !info.power && !info.ground) {
-      const key = info.observed.sort(ascending).join(',');
+      const key = sortAscending(info.observed).join(',');
       const g = passGroups.get(key);
       if (g) g.push(info);
       else passGroups.set(key, [info]);
@@ -280,7 +280,7 @@ export function extractStages(cell: Cell, rails: readonly (RailKind | undefined)
       let plain = true;
       const file = locOf(sorted[0]).file;
       for (const e of sorted) if (e >= firstResistor || locOf(e).file !== file) plain = false;
-      if (plain) sorted.sort(ascending);
+      if (plain) sortAscending(sorted);
       else sorted.sort(byLoc);
     }
     const elements: StageElement[] = new Array(sorted.length);
@@ -302,7 +302,7 @@ export function extractStages(cell: Cell, rails: readonly (RailKind | undefined)
     }
     const internal: number[] = [];
     for (const x of stageNets) if (!terminals.includes(x)) internal.push(x);
-    internal.sort(ascending);
+    sortAscending(internal);
     return {
       id: stages.length,
       component: components.find(sorted[0]),
@@ -411,7 +411,7 @@ export function extractStages(cell: Cell, rails: readonly (RailKind | undefined)
   for (const infos of passGroups.values()) {
     const all: number[] = [];
     for (const info of infos) for (const e of info.edges) all.push(e);
-    const terminals = infos[0].observed.slice().sort(ascending);
+    const terminals = sortAscending(infos[0].observed.slice());
     const local = new Map<number, number>();
     const stage = makeStage(all, 'pass', null, terminals, local);
     if (terminals.length === 2) stage.channel = reduceSeriesParallel(leaves(all, local), terminals[0], terminals[1]).network;
@@ -421,7 +421,7 @@ export function extractStages(cell: Cell, rails: readonly (RailKind | undefined)
 
   for (const info of loose) {
     const local = new Map<number, number>();
-    const terminals = info.observed.slice().sort(ascending);
+    const terminals = sortAscending(info.observed.slice());
     const stage = makeStage(info.edges, 'other', null, terminals, local);
     stage.notes.push(
       info.observed.length === 0 ? 'no observed output' : 'joins several observed nets and the rails through shared internal nodes',
@@ -441,6 +441,21 @@ export function extractStages(cell: Cell, rails: readonly (RailKind | undefined)
 
 function ascending(x: number, y: number): number {
   return x - y;
+}
+
+/** Sorts numbers in place, ascending. Per-stage lists hold a handful of entries, which insertion sort orders without the work array `Array.prototype.sort` allocates. */
+function sortAscending(xs: number[]): number[] {
+  if (xs.length > 16) return xs.sort(ascending);
+  for (let i = 1; i < xs.length; i++) {
+    const x = xs[i];
+    let j = i - 1;
+    while (j >= 0 && xs[j] > x) {
+      xs[j + 1] = xs[j];
+      j--;
+    }
+    xs[j + 1] = x;
+  }
+  return xs;
 }
 
 function never(): boolean {

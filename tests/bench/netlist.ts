@@ -259,8 +259,10 @@ async function childMain(kind: CaseName, file: string): Promise<void> {
     facts.distinctDevices = distinct;
     if (kind === 'read-check') {
       t = performance.now();
+      const checkCpu = process.cpuUsage();
       const result = checkDesign(design, deck);
       lap('checkDesign (built-in deck)');
+      facts.checkCpuMs = ((u) => (u.user + u.system) / 1000)(process.cpuUsage(checkCpu));
       facts.findings = result.findings.length;
       facts.rules = Object.values(deck.rules).filter((r) => r.enabled).length;
     }
@@ -341,6 +343,9 @@ export async function run(): Promise<void> {
     line('  throughput', `${fmt((f.distinctDevices as number) / (parse / 1000))} devices/s, ${(flatText.length / 1e6 / (parse / 1000)).toFixed(1)} MB/s`);
     line('  peak RSS', `${fmt(parseRss)} MB`);
     line(`checkDesign, built-in deck (${full.facts.rules} rules)`, `${fmt(check)} ms = ${(check / base).toFixed(1)}x baseline, ${full.facts.findings} findings`);
+    const checkCpu = full.facts.checkCpuMs as number;
+    line('  in CPU time', `${fmt(checkCpu)} ms against ${fmt(baseCpu)} ms = ${(checkCpu / baseCpu).toFixed(1)}x (target 6x)`);
+    line('  load average at the end', (await import('node:os')).loadavg().map((x) => x.toFixed(2)).join(' '));
     line('total (one run)', `${fmt(full.totalMs)} ms = ${(full.totalMs / base).toFixed(1)}x baseline (target < 10x, aim 5x): ${verdict(full.totalMs < 10 * base)}`);
     line('peak RSS, full check', `${fmt(full.peakRssMb)} MB (target < 2048 MB): ${verdict(full.peakRssMb < 2048)}`);
     const h = hier.facts;

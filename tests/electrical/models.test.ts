@@ -160,3 +160,24 @@ describe('stack solutions', () => {
     expect(newton / channelCurrent(nm, 2e-4, lo, 0, 2.5, 0)).toBeCloseTo(1, 9);
   });
 });
+
+describe('currents read by node index (the network solver’s unboxed path)', () => {
+  it('channelCurrentAt and channelCurrentSlopesAt equal channelCurrent and channelCurrentSlopes bit for bit, both polarities and models', async () => {
+    const { channelCurrentAt, channelCurrentSlopes, channelCurrentSlopesAt } = await import('../../rules/electrical/mos');
+    const v = fc.double({ min: -0.5, max: 3.5, noNaN: true });
+    fc.assert(
+      fc.property(v, v, v, v, fc.boolean(), fc.boolean(), fc.double({ min: 0, max: 0.8, noNaN: true }), (va, vb, vg, vbulk, pChannel, saturated, gamma) => {
+        const base = pChannel ? p : n;
+        const m: MosModel = { ...base, gamma, lambda: 0.07, kind: saturated ? 'velocity-saturated' : 'square-law' };
+        const nodes = new Float64Array([va, vb, vg, vbulk]);
+        const want = new Float64Array(3);
+        const got = new Float64Array(3);
+        channelCurrentSlopes(m, 2e-4, va, vb, vg, vbulk, want);
+        channelCurrentSlopesAt(m, 2e-4, nodes, 0, 1, 2, 3, got);
+        // Same operations in the same order: equal to the last bit (+0 and −0 count as equal).
+        return channelCurrentAt(m, 2e-4, nodes, 0, 1, 2, 3) === channelCurrent(m, 2e-4, va, vb, vg, vbulk) && got.every((x, i) => x === want[i]);
+      }),
+      { numRuns: 2000 },
+    );
+  });
+});
