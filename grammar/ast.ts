@@ -8,6 +8,7 @@
 import type { Diagnostic, PinDirection, SourceLoc } from './design';
 import type { CompiledExpr } from './expression';
 import type { NameTable } from './names';
+import { LocationCursor } from './source';
 
 /** An expression to evaluate per parameter binding, or a bare parameter name (`w=wn`). */
 export interface Expr {
@@ -33,7 +34,7 @@ export interface Param {
 }
 
 export interface MosStatement {
-  kind: 'mos';
+  readonly kind: 'mos';
   name: string;
   drain: number;
   gate: number;
@@ -48,6 +49,143 @@ export interface MosStatement {
   /** Every other `name=value`, lower-case names. */
   extra?: Param[];
   loc: SourceLoc;
+}
+
+/** Value slots of a MOSFET row, in `MosTable.values` order. */
+const W = 0;
+const L = 1;
+const M = 2;
+const NF = 3;
+
+/**
+ * The M lines of one file, column by column: a million-line extraction holds its
+ * transistors in a few typed arrays instead of a million statement objects. Sizes that
+ * are plain numbers live in the arrays; an expression, or any other parameter, is kept
+ * on the side for the few rows that have one. Locations are computed when asked.
+ */
+export class MosTable {
+  count = 0;
+  drain = new Int32Array(256);
+  gate = new Int32Array(256);
+  source = new Int32Array(256);
+  bulk = new Int32Array(256);
+  /** Offset of the element name (the line's first field) in the file. */
+  offset = new Int32Array(256);
+  modelOffset = new Int32Array(256);
+  /** w, l, m, nf of each row, four per row; NaN where the value is absent or an expression. */
+  values = new Float64Array(256 * 4);
+  readonly names: string[] = [];
+  readonly models: string[] = [];
+  /** Rows whose w, l, m or nf is an expression: the four values, numbers included. */
+  readonly expressions = new Map<number, (Value | undefined)[]>();
+  /** Rows with other parameters. */
+  readonly extras = new Map<number, Param[]>();
+  private readonly cursor: LocationCursor;
+
+  constructor(file: string, lineStarts: readonly number[]) {
+    this.cursor = new LocationCursor(file, lineStarts);
+  }
+
+  add(name: string, drain: number, gate: number, source: number, bulk: number, model: string, offset: number, modelOffset: number, w: Value | undefined, l: Value | undefined, m: Value | undefined, nf: Value | undefined, extra: Param[] | undefined): number {
+    if (this.count === this.drain.length) this.grow();
+    const r = this.count++;
+    this.drain[r] = drain;
+    this.gate[r] = gate;
+    this.source[r] = source;
+    this.bulk[r] = bulk;
+    this.offset[r] = offset;
+    this.modelOffset[r] = modelOffset;
+    this.names.push(name);
+    this.models.push(model);
+    const values = this.values;
+    const at = 4 * r;
+    values[at + W] = typeof w === 'number' ? w : NaN;
+    values[at + L] = typeof l === 'number' ? l : NaN;
+    values[at + M] = typeof m === 'number' ? m : NaN;
+    values[at + NF] = typeof nf === 'number' ? nf : NaN;
+    if (typeof w === 'object' || typeof l === 'object' || typeof m === 'object' || typeof nf === 'object') this.expressions.set(r, [w, l, m, nf]);
+    if (extra) this.extras.set(r, extra);
+    return r;
+  }
+
+  /** Size `k` of row `r` (0 w, 1 l, 2 m, 3 nf). */
+  value(r: number, k: number): Value | undefined {
+    const v = this.values[4 * r + k];
+    if (v === v) return v;
+    return this.expressions.get(r)?.[k];
+  }
+
+  loc(r: number): SourceLoc {
+    return this.cursor.at(this.offset[r]);
+  }
+
+  private grow(): void {
+    const n = this.drain.length * 2;
+    const grow32 = (a: Int32Array) => {
+      const b = new Int32Array(n);
+      b.set(a);
+      return b;
+    };
+    this.drain = grow32(this.drain);
+    this.gate = grow32(this.gate);
+    this.source = grow32(this.source);
+    this.bulk = grow32(this.bulk);
+    this.offset = grow32(this.offset);
+    this.modelOffset = grow32(this.modelOffset);
+    const values = new Float64Array(n * 4);
+    values.set(this.values);
+    this.values = values;
+  }
+}
+
+/** One M line: a view of its row in the file's `MosTable` (every field read on demand). */
+export class MosRow implements MosStatement {
+  // A data field, not a getter: every walk over statements switches on `kind`.
+  readonly kind = 'mos' as const;
+  constructor(
+    readonly table: MosTable,
+    readonly row: number,
+  ) {}
+  get name(): string {
+    return this.table.names[this.row];
+  }
+  get drain(): number {
+    return this.table.drain[this.row];
+  }
+  get gate(): number {
+    return this.table.gate[this.row];
+  }
+  get source(): number {
+    return this.table.source[this.row];
+  }
+  get bulk(): number {
+    return this.table.bulk[this.row];
+  }
+  get model(): string {
+    return this.table.models[this.row];
+  }
+  get modelOffset(): number {
+    return this.table.modelOffset[this.row];
+  }
+  get w(): Value | undefined {
+    return this.table.value(this.row, W);
+  }
+  get l(): Value | undefined {
+    return this.table.value(this.row, L);
+  }
+  get m(): Value | undefined {
+    return this.table.value(this.row, M);
+  }
+  get nf(): Value | undefined {
+    return this.table.value(this.row, NF);
+  }
+  get extra(): Param[] | undefined {
+    return this.table.extras.get(this.row);
+  }
+  /** A new location object on every read. */
+  get loc(): SourceLoc {
+    return this.table.loc(this.row);
+  }
 }
 
 export interface InstanceStatement {

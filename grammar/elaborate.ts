@@ -21,13 +21,13 @@ import type {
   ElementStatement,
   FileAst,
   InstanceStatement,
-  MosStatement,
   Param,
   PinInfoEntry,
   Statement,
   SubcktStatement,
   Value,
 } from './ast';
+import type { MosRow } from './ast';
 import type { Cell, Design, Diagnostic, DiagnosticSeverity, ModelCard, Mosfet, MosPolarity, PinDirection, RailKind, SourceLoc } from './design';
 import { evaluate } from './expression';
 import { NumberCache } from './numbers';
@@ -733,12 +733,12 @@ class Elaborator {
     // elements spliced in from included files are mapped into a copy by name.
     const own = def.ownNets ?? def.segments[0]?.nets ?? new NameTable();
     const ownFile = def.stmt ? file : (def.segments[0]?.file ?? file);
-    const ownLocs = own.locations(this.cursor(ownFile));
     const foreign = def.segments.some((sg) => sg.nets !== own);
-    const cellNets = foreign ? new CellNets(own, ownLocs) : null;
+    const cellNets = foreign ? new CellNets(own, own.locations(this.cursor(ownFile))) : null;
     cell.nets = cellNets ? cellNets.names : own.names;
     cell.netIndex = cellNets ? cellNets.index : own.index;
-    cell.netLocs = cellNets ? cellNets.locs : ownLocs;
+    if (cellNets) cell.netLocs = cellNets.locs;
+    else lazyNetLocs(cell, own, this.cursor(ownFile));
 
     if (def.stmt) {
       const seenPorts = new Set<number>();
@@ -762,6 +762,8 @@ class Elaborator {
     const num = (v: Value | undefined, elFile: string): number | undefined => (v === undefined ? undefined : typeof v === 'number' ? v : this.evalValue(v, elFile, lookup));
     const scale = this.scale;
 
+    let lastModel: string | null = null;
+    let lastKind: DeviceKind | null = null;
     for (const segment of def.segments) {
       let net: (id: number) => number = identity;
       if (segment.nets !== own) {
@@ -772,16 +774,21 @@ class Elaborator {
       }
       for (let e = segment.start; e < segment.end; e++) {
         const el = def.elements[e];
-        const elFile = el.loc.file;
+        const elFile = segment.file;
         switch (el.kind) {
           case 'mos': {
-            const kind = this.deviceKind(el.model);
+            const row = el as MosRow;
+            const table = row.table;
+            const model = table.models[row.row];
+            const kind: DeviceKind | null = model === lastModel ? lastKind : this.deviceKind(model);
+            lastModel = model;
+            lastKind = kind;
             if (kind === 'ignore') break;
             if (kind !== 'nmos' && kind !== 'pmos') {
               this.modelProblem(el.name, el.model, kind, elFile, el.modelOffset);
               break;
             }
-            const m = this.mosfet(el, kind === 'nmos' ? 'n' : 'p', net, lookup, scale);
+            const m = this.mosfet(row, elFile, kind === 'nmos' ? 'n' : 'p', net, lookup, scale);
             if (m) cell.mosfets.push(m);
             break;
           }
@@ -896,27 +903,44 @@ class Elaborator {
     return { w: wv * scale, l: lv * scale };
   }
 
-  private mosfet(el: MosStatement, polarity: MosPolarity, net: (id: number) => number, lookup: Lookup, scale: number): Mosfet | null {
-    const file = el.loc.file;
+  private mosfet(row: MosRow, file: string, polarity: MosPolarity, net: (id: number) => number, lookup: Lookup, scale: number): Mosfet | null {
+    const t = row.table;
+    const r = row.row;
+    const at = 4 * r;
     let w: number;
     let l: number;
-    if (typeof el.w === 'number' && typeof el.l === 'number') {
+    const wRaw = t.values[at];
+    const lRaw = t.values[at + 1];
+    if (wRaw === wRaw && lRaw === lRaw) {
       // The common case, a plain number for both: no evaluation, no temporary object.
-      w = el.w * scale;
-      l = el.l * scale;
+      w = wRaw * scale;
+      l = lRaw * scale;
     } else {
-      const size = this.sizes(el.name, el.w, el.l, file, el.loc, lookup, scale);
+      const size = this.sizes(t.names[r], t.value(r, 0), t.value(r, 1), file, t.loc(r), lookup, scale);
       if (!size) return null;
       w = size.w;
       l = size.l;
     }
-    const m = el.m === undefined ? undefined : typeof el.m === 'number' ? el.m : this.evalValue(el.m, file, lookup);
-    const nf = el.nf === undefined ? 1 : typeof el.nf === 'number' ? el.nf : (this.evalValue(el.nf, file, lookup) ?? 1);
+    const mRaw = t.values[at + 2];
+    const nfRaw = t.values[at + 3];
+    let m: number | undefined;
+    let nf = 1;
+    if (mRaw === mRaw) m = mRaw;
+    else {
+      const v = t.value(r, 2);
+      if (v !== undefined) m = typeof v === 'number' ? v : this.evalValue(v, file, lookup);
+    }
+    if (nfRaw === nfRaw) nf = nfRaw;
+    else {
+      const v = t.value(r, 3);
+      if (v !== undefined) nf = typeof v === 'number' ? v : (this.evalValue(v, file, lookup) ?? 1);
+    }
     let params = EMPTY_PARAMS;
     let mult: number | undefined;
-    if (el.extra) {
+    const extra = t.extras.size ? t.extras.get(r) : undefined;
+    if (extra) {
       params = {};
-      for (const p of el.extra) {
+      for (const p of extra) {
         if (p.value === undefined) continue;
         const v = typeof p.value === 'number' ? p.value : this.evalValue(p.value, file, lookup, p.value.bare);
         if (v === undefined) continue;
@@ -927,18 +951,18 @@ class Elaborator {
     return {
       kind: 'mos',
       polarity,
-      name: el.name,
-      drain: net(el.drain),
-      gate: net(el.gate),
-      source: net(el.source),
-      bulk: net(el.bulk),
-      model: el.model,
+      name: t.names[r],
+      drain: net(t.drain[r]),
+      gate: net(t.gate[r]),
+      source: net(t.source[r]),
+      bulk: net(t.bulk[r]),
+      model: t.models[r],
       w,
       l,
       m: m ?? mult ?? 1,
       nf,
       params,
-      loc: el.loc,
+      loc: t.loc(r),
     };
   }
 
@@ -1212,6 +1236,24 @@ function collectIncludeTargets(statements: readonly Statement[], file: string, o
 }
 
 const identity = (id: number) => id;
+
+/**
+ * `cell.netLocs` made on first read: a flat extraction has a location object per net,
+ * and checks read them only to place a few findings. An own enumerable property, so
+ * spreading or serialising a cell still sees the array.
+ */
+function lazyNetLocs(cell: Cell, nets: NameTable, cursor: LocationCursor): void {
+  // Defined out here so that the getter holds only the table and the cursor, never the elaborator.
+  let value: SourceLoc[] | undefined;
+  Object.defineProperty(cell, 'netLocs', {
+    enumerable: true,
+    configurable: true,
+    get: () => (value ??= nets.locations(cursor)),
+    set: (v: SourceLoc[]) => {
+      value = v;
+    },
+  });
+}
 
 /** A cell's nets when its elements come from several bodies: a copy of its own table, extended by name. */
 class CellNets {

@@ -158,10 +158,14 @@ class BreakScanner {
 
 const breaks = new BreakScanner();
 
+// One result array for every custom match: the lexer reads the image and payload at once
+// and keeps neither the array nor a reference to it, so a million lines cost no million arrays.
+const matched = [''] as unknown as CustomPatternMatcherReturn & { payload?: unknown };
+
 function match(text: string, offset: number, end: number, payload?: unknown): CustomPatternMatcherReturn {
-  const m = [text.substring(offset, end)] as unknown as CustomPatternMatcherReturn & { payload?: unknown };
-  if (payload !== undefined) m.payload = payload;
-  return m;
+  matched[0] = text.substring(offset, end);
+  matched.payload = payload;
+  return matched;
 }
 
 /** A field's text with backslash escapes resolved (`B_reg\[106\]` → `B_reg[106]`). */

@@ -94,15 +94,66 @@ export function parseSpiceNumber(text: string): NumberResult {
   return { ok: true, value };
 }
 
+/** Exact powers of ten as doubles (10^22 is the largest). */
+const EXACT_POWERS = Array.from({ length: 23 }, (_, k) => Number(`1e${k}`));
+
+/** Scale exponent of a one-letter suffix by character code (either case), 0 where the letter is none. */
+const LETTER_EXPONENT = new Int8Array(128);
+for (const [letter, e] of Object.entries(SCALE_EXPONENT)) {
+  if (letter.charCodeAt(0) < 128) {
+    LETTER_EXPONENT[letter.charCodeAt(0)] = e;
+    LETTER_EXPONENT[letter.toUpperCase().charCodeAt(0)] = e;
+  }
+}
+
+/**
+ * The common literal read without any string work: digits, an optional fraction and at
+ * most one scale letter (`0.42`, `150000u`, `1.26`). Mantissa and power of ten are both
+ * exact as doubles (at most 15 digits, power at most 22), so one multiplication or
+ * division gives the correctly rounded value, the same double as `Number("…e…")`
+ * (Clinger's fast path). Anything else (signs, exponents, `meg`, `mil`, unit letters,
+ * long mantissas) returns NaN and is read the general way.
+ */
+export function parsePlainDecimal(text: string, start: number, end: number): number {
+  let mantissa = 0;
+  let digits = 0;
+  let fraction = -1;
+  let i = start;
+  for (; i < end; i++) {
+    const c = text.charCodeAt(i);
+    if (c >= 48 && c <= 57) {
+      mantissa = mantissa * 10 + (c - 48);
+      digits++;
+    } else if (c === 46 && fraction < 0) fraction = i;
+    else break;
+  }
+  if (digits === 0 || digits > 15) return NaN;
+  let exponent = fraction < 0 ? 0 : -(i - fraction - 1);
+  if (i < end) {
+    const c = text.charCodeAt(i);
+    if (i + 1 !== end || c >= 128 || LETTER_EXPONENT[c] === 0) return NaN;
+    exponent += LETTER_EXPONENT[c];
+  }
+  if (exponent >= 0) return exponent > 22 ? NaN : mantissa * EXACT_POWERS[exponent];
+  return exponent < -22 ? NaN : mantissa / EXACT_POWERS[-exponent];
+}
+
 /** A memo of parsed literals: netlists repeat the same few hundred values millions of times. */
 export class NumberCache {
   private readonly keys: string[] = [];
+  /** The result of a plain decimal, reused: callers read `value` at once and keep only the number. */
+  private readonly plain: { ok: true; value: number } = { ok: true, value: 0 };
   private readonly results: NumberResult[] = [];
   // Folding case is safe: scale factors and unit letters read the same in either case.
   private readonly index = new RangeIndex((e) => this.keys[e], true, 1024);
 
   /** The number written at `text[start, end)`. */
   parseAt(text: string, start: number, end: number): NumberResult {
+    const plain = parsePlainDecimal(text, start, end);
+    if (plain === plain) {
+      this.plain.value = plain;
+      return this.plain;
+    }
     const h = hashRange(text, start, end, true);
     const e = this.index.find(text, start, end, h);
     if (e >= 0) return this.results[e];

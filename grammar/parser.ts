@@ -20,7 +20,8 @@
 // from larger decks and exported by tools usually start with content.
 
 import { createTokenInstance, EmbeddedActionsParser, type IToken } from 'chevrotain';
-import type { FileAst, InstanceStatement, MosStatement, Param, PinInfoEntry, Statement, SubcktStatement, LibSectionStatement, Value, Expr } from './ast';
+import { MosRow, MosTable } from './ast';
+import type { FileAst, InstanceStatement, Param, PinInfoEntry, Statement, SubcktStatement, LibSectionStatement, Value, Expr } from './ast';
 import type { Diagnostic, DiagnosticSeverity, PinDirection, SourceLoc } from './design';
 import { compileExpression } from './expression';
 import {
@@ -96,6 +97,8 @@ export interface ParseOptions {
   chunkSize?: number;
 }
 
+// Actions call the sink directly instead of through ACTION closures (one fewer closure per
+// token): the sink is null while Chevrotain records the grammar, so nothing runs then.
 class NetlistParser extends EmbeddedActionsParser {
   sink: FileBuilder | null = null;
   // Cached alternatives: building them per call would allocate on every line.
@@ -113,24 +116,24 @@ class NetlistParser extends EmbeddedActionsParser {
       this.MANY2(() =>
         this.OR(
           (this.itemAlts ??= [
-            { ALT: () => { const t = this.CONSUME(Fields); this.ACTION(() => this.sink!.fields(t)); } },
-            { ALT: () => { const t = this.CONSUME(Brace); this.ACTION(() => this.sink!.item(Kind.Brace, t)); } },
-            { ALT: () => { const t = this.CONSUME(Quoted); this.ACTION(() => this.sink!.item(Kind.Quoted, t)); } },
-            { ALT: () => { const t = this.CONSUME(DollarModel); this.ACTION(() => this.sink!.item(Kind.DollarModel, t)); } },
-            { ALT: () => { const t = this.CONSUME(LParen); this.ACTION(() => this.sink!.item(Kind.Open, t)); } },
-            { ALT: () => { const t = this.CONSUME(RParen); this.ACTION(() => this.sink!.item(Kind.Close, t)); } },
-            { ALT: () => { const t = this.CONSUME(Unclosed); this.ACTION(() => this.sink!.item(Kind.Unclosed, t)); } },
-            { ALT: () => { const t = this.CONSUME(Stray); this.ACTION(() => this.sink!.item(Kind.Stray, t)); } },
+            { ALT: () => { const t = this.CONSUME(Fields); this.sink?.fields(t); } },
+            { ALT: () => { const t = this.CONSUME(Brace); this.sink?.item(Kind.Brace, t); } },
+            { ALT: () => { const t = this.CONSUME(Quoted); this.sink?.item(Kind.Quoted, t); } },
+            { ALT: () => { const t = this.CONSUME(DollarModel); this.sink?.item(Kind.DollarModel, t); } },
+            { ALT: () => { const t = this.CONSUME(LParen); this.sink?.item(Kind.Open, t); } },
+            { ALT: () => { const t = this.CONSUME(RParen); this.sink?.item(Kind.Close, t); } },
+            { ALT: () => { const t = this.CONSUME(Unclosed); this.sink?.item(Kind.Unclosed, t); } },
+            { ALT: () => { const t = this.CONSUME(Stray); this.sink?.item(Kind.Stray, t); } },
           ]),
         ),
       );
       this.OR2(
         (this.endAlts ??= [
           { ALT: () => { this.CONSUME(Newline); } },
-          { ALT: () => { const t = this.CONSUME(FieldsEnd); this.ACTION(() => this.sink!.fields(t)); } },
+          { ALT: () => { const t = this.CONSUME(FieldsEnd); this.sink?.fields(t); } },
         ]),
       );
-      this.ACTION(() => this.sink!.endLine(directive));
+      this.sink?.endLine(directive);
     });
   });
 }
@@ -150,6 +153,8 @@ class FileBuilder {
   private readonly stack: (SubcktStatement | LibSectionStatement)[] = [];
   private readonly cursor: LocationCursor;
   private readonly models = new Interner();
+  /** The file's M lines. */
+  private readonly mosTable: MosTable;
   /** The piece being parsed and its offset within the file. */
   private piece = '';
   base = 0;
@@ -170,6 +175,7 @@ class FileBuilder {
     private readonly numbers: NumberCache,
   ) {
     this.cursor = new LocationCursor(path, starts);
+    this.mosTable = new MosTable(path, starts);
   }
 
   /** Start a new piece of the file: positions of its tokens are relative to `base`. */
@@ -368,24 +374,22 @@ class FileBuilder {
     // A device with an unreadable value is left out (the value's diagnostic says why).
     if (this.valueErrors !== failures) return;
     const nets = this.nets();
-    // Every field initialised here, so that all statements share one object shape.
-    const stmt: MosStatement = {
-      kind: 'mos',
-      name: line.word(0),
-      drain: this.node(line, 1, nets),
-      gate: this.node(line, 2, nets),
-      source: this.node(line, 3, nets),
-      bulk: this.node(line, 4, nets),
-      model: this.name(line, 5),
-      modelOffset: line.at(5),
+    const row = this.mosTable.add(
+      line.word(0),
+      this.node(line, 1, nets),
+      this.node(line, 2, nets),
+      this.node(line, 3, nets),
+      this.node(line, 4, nets),
+      this.name(line, 5),
+      line.at(0),
+      line.at(5),
       w,
       l,
       m,
       nf,
       extra,
-      loc: this.loc(line.at(0)),
-    };
-    this.add(stmt);
+    );
+    this.add(new MosRow(this.mosTable, row));
   }
 
   private instance(line: Line): void {

@@ -50,7 +50,9 @@ export function foldAscii(text: string): string {
 export class RangeIndex {
   /** Pairs: entry + 1 (0 = empty), hash. */
   private slots: Int32Array;
-  private hashes: number[] = [];
+  /** Hash of each entry, as int32 (a plain array would box every hash above 2^31). */
+  private hashes = new Int32Array(16);
+  private count = 0;
   private mask: number;
 
   constructor(
@@ -63,7 +65,7 @@ export class RangeIndex {
   }
 
   get size(): number {
-    return this.hashes.length;
+    return this.count;
   }
 
   /** Entry whose key equals the range, or -1. */
@@ -79,9 +81,14 @@ export class RangeIndex {
 
   /** Record the entry numbered `size` (the caller has already stored its key). */
   add(hash: number): number {
-    const entry = this.hashes.length;
-    this.hashes.push(hash);
-    if (this.hashes.length * 2 > this.mask + 1) this.grow();
+    const entry = this.count++;
+    if (entry === this.hashes.length) {
+      const grown = new Int32Array(entry * 2);
+      grown.set(this.hashes);
+      this.hashes = grown;
+    }
+    this.hashes[entry] = hash | 0;
+    if (this.count * 2 > this.mask + 1) this.grow();
     else this.place(entry, hash);
     return entry;
   }
@@ -98,6 +105,6 @@ export class RangeIndex {
     const n = (this.mask + 1) * 2;
     this.slots = new Int32Array(n * 2);
     this.mask = n - 1;
-    for (let e = 0; e < this.hashes.length; e++) this.place(e, this.hashes[e]);
+    for (let e = 0; e < this.count; e++) this.place(e, this.hashes[e]);
   }
 }
