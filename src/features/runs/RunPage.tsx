@@ -125,7 +125,7 @@ function Counts({ run }: { run: RunDetail }) {
   const items = [
     { tone: 'error' as const, n: s.errors, word: s.errors === 1 ? 'error' : 'errors', filter: 'error' },
     { tone: 'warning' as const, n: s.warnings, word: s.warnings === 1 ? 'warning' : 'warnings', filter: 'warning' },
-    { tone: 'info' as const, n: s.infos, word: s.infos === 1 ? 'note' : 'notes', filter: 'info' },
+    { tone: 'info' as const, n: s.infos, word: s.infos === 1 ? 'info' : 'infos', filter: 'info' },
   ];
   return (
     <ul className="flex flex-wrap gap-3" aria-label="Findings by severity">
