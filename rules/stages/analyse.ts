@@ -64,6 +64,21 @@ export interface StageAnalysis {
   inputs: InputAnalysis[];
   /** Why the stage has no transfer analysis, when it has none. */
   skipped: string | null;
+  /** The analysis of one swept input (the entry of `inputs` with that net), without building the others. */
+  input(net: number): InputAnalysis | undefined;
+  /** The input and corner whose weakest case has the smallest gain magnitude at its threshold (the first of equals, in `inputs` order); null without inputs. */
+  weakestGain(): StageExtreme | null;
+  /** The input and corner whose worst-margin case has the smallest noise margin as a fraction of VDD (cases without unity-gain points left out); null when none has one. */
+  smallestMargin(): StageExtreme | null;
+}
+
+/** One input at one corner, picked from a stage's analysis. */
+export interface StageExtreme {
+  input: number;
+  /** The figure it was picked by: the gain magnitude, or the margin as a fraction of VDD. */
+  value: number;
+  /** Built when read, so that stages a rule passes over cost no view. */
+  readonly corner: CornerAnalysis;
 }
 
 export interface AnalysisStats {
@@ -96,6 +111,52 @@ interface CachedStage {
     /** The corner views, built once, when no case holds an input (they then name no net); null when some case does. */
     netFree?: CornerAnalysis[] | null;
   }[];
+  /** Positions (input, corner) of `weakestGain()` and `smallestMargin()`, found once per signature; null when there is none. */
+  weakest?: ExtremeAt | null;
+  narrowest?: ExtremeAt | null;
+}
+
+interface ExtremeAt {
+  input: number;
+  corner: number;
+  value: number;
+}
+
+/** Position of the weakest gain, in the order the stage rules have always scanned (inputs, then corners; strict improvement). */
+function weakestAt(cached: CachedStage): ExtremeAt | null {
+  let best: ExtremeAt | null = null;
+  let bestGain = 0;
+  for (let i = 0; i < cached.inputs.length; i++) {
+    const corners = cached.inputs[i].corners;
+    for (let k = 0; k < corners.length; k++) {
+      const c = corners[k];
+      const g = Math.abs(c.cases[c.weakestGain].result.gainAtVm);
+      if (!best || g < bestGain) {
+        best = { input: i, corner: k, value: g };
+        bestGain = g;
+      }
+    }
+  }
+  return best;
+}
+
+function narrowestAt(cached: CachedStage): ExtremeAt | null {
+  let best: ExtremeAt | null = null;
+  let bestFraction = 0;
+  for (let i = 0; i < cached.inputs.length; i++) {
+    const corners = cached.inputs[i].corners;
+    for (let k = 0; k < corners.length; k++) {
+      const c = corners[k];
+      const r = c.cases[c.worstMargin].result;
+      if (r.nmh === null || r.nml === null) continue;
+      const fraction = (r.nmh < r.nml ? r.nmh : r.nml) / c.vdd;
+      if (!best || fraction < bestFraction) {
+        best = { input: i, corner: k, value: fraction };
+        bestFraction = fraction;
+      }
+    }
+  }
+  return best;
 }
 
 const memos = new WeakMap<Design, DesignMemo>();
@@ -379,19 +440,63 @@ class StageAnalysisView implements StageAnalysis {
 
   get inputs(): InputAnalysis[] {
     if (!this.cached) return [];
-    const nets = this.stage.inputs;
     const out: InputAnalysis[] = [];
-    for (const ci of this.cached.inputs) {
-      if (ci.netFree === undefined) ci.netFree = ci.corners.every((c) => c.cases.every((x) => x.held.length === 0)) ? cornerViews(ci.corners, nets) : null;
-      if (ci.netFree) {
-        // No held inputs: nothing net-specific below the input, so every stage of the signature shares one set of corner objects.
-        out.push({ input: nets[ci.input], corners: ci.netFree });
-        continue;
-      }
-      out.push({ input: nets[ci.input], corners: cornerViews(ci.corners, nets) });
-    }
+    for (let i = 0; i < this.cached.inputs.length; i++) out.push(this.inputAt(i));
     return out;
   }
+
+  input(net: number): InputAnalysis | undefined {
+    if (!this.cached) return undefined;
+    const nets = this.stage.inputs;
+    for (let i = 0; i < this.cached.inputs.length; i++) if (nets[this.cached.inputs[i].input] === net) return this.inputAt(i);
+    return undefined;
+  }
+
+  weakestGain(): StageExtreme | null {
+    if (!this.cached) return null;
+    if (this.cached.weakest === undefined) this.cached.weakest = weakestAt(this.cached);
+    return this.extremeAt(this.cached.weakest);
+  }
+
+  smallestMargin(): StageExtreme | null {
+    if (!this.cached) return null;
+    if (this.cached.narrowest === undefined) this.cached.narrowest = narrowestAt(this.cached);
+    return this.extremeAt(this.cached.narrowest);
+  }
+
+  private extremeAt(at: ExtremeAt | null): StageExtreme | null {
+    return at ? new ExtremeView(this.cached!.inputs[at.input], at, this.stage.inputs) : null;
+  }
+
+  private inputAt(i: number): InputAnalysis {
+    const ci = this.cached!.inputs[i];
+    const nets = this.stage.inputs;
+    return { input: nets[ci.input], corners: netFreeViews(ci, nets) ?? cornerViews(ci.corners, nets) };
+  }
+}
+
+class ExtremeView implements StageExtreme {
+  readonly input: number;
+  readonly value: number;
+  constructor(
+    private readonly cached: CachedStage['inputs'][number],
+    private readonly at: ExtremeAt,
+    private readonly nets: readonly number[],
+  ) {
+    this.input = nets[cached.input];
+    this.value = at.value;
+  }
+
+  get corner(): CornerAnalysis {
+    const shared = netFreeViews(this.cached, this.nets);
+    return shared ? shared[this.at.corner] : cornerViews(this.cached.corners.slice(this.at.corner, this.at.corner + 1), this.nets)[0];
+  }
+}
+
+/** No held inputs: nothing net-specific below the input, so every stage of the signature shares one set of corner objects. */
+function netFreeViews(ci: CachedStage['inputs'][number], nets: readonly number[]): CornerAnalysis[] | null {
+  if (ci.netFree === undefined) ci.netFree = ci.corners.every((c) => c.cases.every((x) => x.held.length === 0)) ? cornerViews(ci.corners, nets) : null;
+  return ci.netFree;
 }
 
 function cornerViews(cachedCorners: CachedStage['inputs'][number]['corners'], nets: readonly number[]): CornerAnalysis[] {
