@@ -21,10 +21,10 @@ export default defineRule({
     const index = cellIndex(ctx);
     const conn = connectivityOf(ctx);
     const cell = ctx.cell;
-    const seen = new Set<number>();
+    const seen = new Uint8Array(cell.nets.length);
     const consider = (net: number) => {
-      if (seen.has(net)) return;
-      seen.add(net);
+      if (seen[net]) return;
+      seen[net] = 1;
       if (index.railOf(net) || index.isPort[net] || conn.connected[net] || conn.anchored[conn.component[net]]) return;
       const gated = [...index.gates.of(net)].map((i) => cell.mosfets[i]);
       const pins = [...index.pinInstances.of(net)].map((k) => cell.instances[k]);

@@ -184,11 +184,10 @@ function solve(d: DynamicNode, hood: Neighbourhood): ElectricalBudget[] {
 export function receiverThresholds(d: DynamicNode): Threshold[] {
   const high = d.style === 'n-evaluate';
   const env = d.receivers.length ? stageEnvironmentOf(d.ctx) : null;
-  const analyses = env ? d.receivers.map((r) => analyseStage(env, r)) : [];
+  const inputs = env ? d.receivers.map((r) => analyseStage(env, r).input(d.node)) : [];
   return d.ctx.deck.corners.map((corner, ci) => {
     let best: Threshold | null = null;
-    analyses.forEach((a, i) => {
-      const inp = a.inputs.find((x) => x.input === d.node);
+    inputs.forEach((inp, i) => {
       const c = inp?.corners[ci];
       if (!c) return;
       for (const x of c.cases) {

@@ -24,7 +24,7 @@ export function receiverLevels(ctx: CellContext, chain: PassChain, cornerIndex: 
   for (const r of chain.receivers) {
     // Only the receivers are analysed (memoised by stage signature), not every stage of the cell.
     const a = analyseStage(env, r);
-    const inp = a?.inputs.find((i) => i.input === chain.receiver);
+    const inp = a.input(chain.receiver);
     const c = inp?.corners[cornerIndex];
     if (!c || !c.cases.length) continue;
     let vih: number | null = null;

@@ -27,18 +27,12 @@ export default defineRule({
   check(ctx, p, report) {
     const cell = ctx.cell;
     for (const a of stageAnalysesOf(ctx)) {
-      let worst: { fraction: number; margin: number; high: boolean; input: number; corner: (typeof a.inputs)[number]['corners'][number] } | null = null;
-      for (const inp of a.inputs) {
-        for (const c of inp.corners) {
-          const r = c.worstMargin.result;
-          if (r.nmh === null || r.nml === null) continue;
-          const high = r.nmh < r.nml;
-          const margin = high ? r.nmh : r.nml;
-          const fraction = margin / c.vdd;
-          if (!worst || fraction < worst.fraction) worst = { fraction, margin, high, input: inp.input, corner: c };
-        }
-      }
-      if (!worst || worst.fraction >= p.minFraction) continue;
+      const narrowest = a.smallestMargin();
+      if (!narrowest || narrowest.value >= p.minFraction) continue;
+      const corner = narrowest.corner;
+      const { nmh, nml } = corner.worstMargin.result;
+      const high = nmh! < nml!;
+      const worst = { fraction: narrowest.value, margin: high ? nmh! : nml!, high, input: narrowest.input, corner };
       const st = a.stage;
       const r = worst.corner.worstMargin.result;
       const held = heldText(cell, worst.corner.worstMargin.held);

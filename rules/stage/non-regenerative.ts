@@ -25,14 +25,9 @@ export default defineRule({
   check(ctx, p, report) {
     const cell = ctx.cell;
     for (const a of stageAnalysesOf(ctx)) {
-      let worst: { gain: number; input: number; corner: (typeof a.inputs)[number]['corners'][number] } | null = null;
-      for (const inp of a.inputs) {
-        for (const c of inp.corners) {
-          const g = Math.abs(c.weakestGain.result.gainAtVm);
-          if (!worst || g < worst.gain) worst = { gain: g, input: inp.input, corner: c };
-        }
-      }
-      if (!worst || worst.gain > p.minGain) continue;
+      const weakest = a.weakestGain();
+      if (!weakest || weakest.value > p.minGain) continue;
+      const worst = { gain: weakest.value, input: weakest.input, corner: weakest.corner };
       const st = a.stage;
       const r = worst.corner.weakestGain.result;
       const held = heldText(cell, worst.corner.weakestGain.held);

@@ -64,6 +64,21 @@ export interface StageAnalysis {
   inputs: InputAnalysis[];
   /** Why the stage has no transfer analysis, when it has none. */
   skipped: string | null;
+  /** The analysis of one swept input (the entry of `inputs` with that net), without building the others. */
+  input(net: number): InputAnalysis | undefined;
+  /** The input and corner whose weakest case has the smallest gain magnitude at its threshold (the first of equals, in `inputs` order); null without inputs. */
+  weakestGain(): StageExtreme | null;
+  /** The input and corner whose worst-margin case has the smallest noise margin as a fraction of VDD (cases without unity-gain points left out); null when none has one. */
+  smallestMargin(): StageExtreme | null;
+}
+
+/** One input at one corner, picked from a stage's analysis. */
+export interface StageExtreme {
+  input: number;
+  /** The figure it was picked by: the gain magnitude, or the margin as a fraction of VDD. */
+  value: number;
+  /** Built when read, so that stages a rule passes over cost no view. */
+  readonly corner: CornerAnalysis;
 }
 
 export interface AnalysisStats {
@@ -78,7 +93,7 @@ export interface AnalysisStats {
 interface DesignMemo {
   transfers: Map<string, TransferResult>;
   /** Per deck: structural stage key → analysis with inputs by position. */
-  stages: WeakMap<Deck, Map<string, CachedStage>>;
+  stages: WeakMap<Deck, SignatureTable>;
   stats: AnalysisStats;
   resolvers: Map<Corner, Map<boolean, ModelResolver>>;
   modelKeys: Map<ResolvedModel, string>;
@@ -96,6 +111,52 @@ interface CachedStage {
     /** The corner views, built once, when no case holds an input (they then name no net); null when some case does. */
     netFree?: CornerAnalysis[] | null;
   }[];
+  /** Positions (input, corner) of `weakestGain()` and `smallestMargin()`, found once per signature; null when there is none. */
+  weakest?: ExtremeAt | null;
+  narrowest?: ExtremeAt | null;
+}
+
+interface ExtremeAt {
+  input: number;
+  corner: number;
+  value: number;
+}
+
+/** Position of the weakest gain, in the order the stage rules have always scanned (inputs, then corners; strict improvement). */
+function weakestAt(cached: CachedStage): ExtremeAt | null {
+  let best: ExtremeAt | null = null;
+  let bestGain = 0;
+  for (let i = 0; i < cached.inputs.length; i++) {
+    const corners = cached.inputs[i].corners;
+    for (let k = 0; k < corners.length; k++) {
+      const c = corners[k];
+      const g = Math.abs(c.cases[c.weakestGain].result.gainAtVm);
+      if (!best || g < bestGain) {
+        best = { input: i, corner: k, value: g };
+        bestGain = g;
+      }
+    }
+  }
+  return best;
+}
+
+function narrowestAt(cached: CachedStage): ExtremeAt | null {
+  let best: ExtremeAt | null = null;
+  let bestFraction = 0;
+  for (let i = 0; i < cached.inputs.length; i++) {
+    const corners = cached.inputs[i].corners;
+    for (let k = 0; k < corners.length; k++) {
+      const c = corners[k];
+      const r = c.cases[c.worstMargin].result;
+      if (r.nmh === null || r.nml === null) continue;
+      const fraction = (r.nmh < r.nml ? r.nmh : r.nml) / c.vdd;
+      if (!best || fraction < bestFraction) {
+        best = { input: i, corner: k, value: fraction };
+        bestFraction = fraction;
+      }
+    }
+  }
+  return best;
 }
 
 const memos = new WeakMap<Design, DesignMemo>();
@@ -272,52 +333,158 @@ export function marginOf(r: TransferResult): number {
 /**
  * A stage's signature, independent of net names and of the corner: kind, each element's type, size, model name and the
  * roles of its gate and bulk (rail, output, input by position, internal node by first use), and the network shapes.
- * Stages with equal signatures have equal analyses under one deck.
+ * Stages with equal signatures have equal analyses under one deck. As text, for tests and tools; the analysis memo
+ * keys on the numbers themselves (`encodeSignature`), which runs once per stage of a flat netlist.
  */
 export function stageSignature(env: StageEnvironment, stage: Stage): string {
-  const { cell, railOf, alias } = env;
-  // Built by appending to one string, with internal nodes numbered in a small list: this runs once per stage of a flat netlist.
-  const local: number[] = [];
-  const role = (net: number): string => {
-    if (net === POWER_END) return 'P';
-    if (net === GROUND_END) return 'G';
-    const r = railOf(net);
-    if (r) return r === 'power' ? 'P' : 'G';
-    if (net === stage.output) return 'o';
-    const i = stage.inputs.indexOf(net);
-    if (i >= 0) return 'i' + i;
-    let x = local.indexOf(net);
-    if (x < 0) x = local.push(net) - 1;
-    return 'n' + x;
-  };
-  let key: string = stage.kind;
-  const active = inNetworks(stage);
-  for (let i = 0; i < stage.elements.length; i++) {
-    const el = stage.elements[i];
-    if (!active[i]) {
-      key += ';-';
-      continue;
+  const encoder = new SignatureEncoder();
+  encoder.encode(env, stage);
+  return Array.from(encoder.key.subarray(0, encoder.length)).join(',');
+}
+
+const KIND_CODES: Record<Stage['kind'], number> = { inverter: 0, complementary: 1, ratioed: 2, clocked: 3, dynamic: 4, pass: 5, other: 6 };
+// Every token after a tag has a fixed arity, so an encoding reads back one way only: equal encodings, equal stages.
+const TAG_INACTIVE = -10;
+const TAG_RES = -11;
+const TAG_N = -12;
+const TAG_P = -13;
+const TAG_LEAF = -20;
+const TAG_PARALLEL = -21;
+const TAG_SERIES = -22;
+const TAG_NONE = -23;
+const ROLE_POWER = -1;
+const ROLE_GROUND = -2;
+const ROLE_OUTPUT = -3;
+/** Input i is ROLE_INPUT − i; internal nodes are 0, 1, 2 … by first use. */
+const ROLE_INPUT = -16;
+
+const modelIds = new Map<string, number>();
+
+/** A number per lower-case model name. */
+function modelId(name: string): number {
+  const lower = lowerCase(name);
+  let id = modelIds.get(lower);
+  if (id === undefined) modelIds.set(lower, (id = modelIds.size));
+  return id;
+}
+
+/** Writes a stage's signature as numbers into one reused buffer, with its hash; no strings, no per-stage closures. */
+class SignatureEncoder {
+  key = new Float64Array(256);
+  length = 0;
+  private words = new Int32Array(this.key.buffer);
+  private readonly local: number[] = [];
+  private env!: StageEnvironment;
+  private stage!: Stage;
+
+  encode(env: StageEnvironment, stage: Stage): void {
+    this.env = env;
+    this.stage = stage;
+    this.length = 0;
+    this.local.length = 0;
+    const { cell, alias } = env;
+    this.push(KIND_CODES[stage.kind]);
+    this.push(stage.elements.length);
+    const active = inNetworks(stage);
+    for (let i = 0; i < stage.elements.length; i++) {
+      const el = stage.elements[i];
+      if (!active[i]) this.push(TAG_INACTIVE);
+      else if (el.kind === 'res') {
+        const r = cell.others[el.index];
+        this.push(TAG_RES);
+        this.push(r.kind === 'res' ? r.value : 0);
+      } else {
+        const m = cell.mosfets[el.index];
+        this.push(m.polarity === 'n' ? TAG_N : TAG_P);
+        this.push(m.w);
+        this.push(m.l);
+        this.push(m.m);
+        this.push(modelId(m.model));
+        this.push(this.role(alias[m.gate]));
+        this.push(this.role(alias[m.bulk]));
+      }
     }
-    if (el.kind === 'res') {
-      const r = cell.others[el.index];
-      key += ';r' + (r.kind === 'res' ? r.value : 0);
-    } else {
-      const m = cell.mosfets[el.index];
-      key += ';' + m.polarity + m.w + ',' + m.l + ',' + m.m + ',' + lowerCase(m.model) + ',' + role(alias[m.gate]) + ',' + role(alias[m.bulk]);
+    this.shape(stage.pullUp);
+    this.shape(stage.pullDown);
+  }
+
+  /** FNV-1a over the 32-bit halves of the encoded numbers. */
+  hash(): number {
+    let h = 0x811c9dc5;
+    const w = this.words;
+    for (let i = 0; i < 2 * this.length; i++) h = Math.imul(h ^ w[i], 0x01000193);
+    return h;
+  }
+
+  /** Whether `other` holds the encoding now in the buffer. */
+  equals(other: Float64Array): boolean {
+    if (other.length !== this.length) return false;
+    const key = this.key;
+    for (let i = 0; i < other.length; i++) if (other[i] !== key[i]) return false;
+    return true;
+  }
+
+  private push(x: number): void {
+    if (this.length === this.key.length) {
+      const grown = new Float64Array(2 * this.key.length);
+      grown.set(this.key);
+      this.key = grown;
+      this.words = new Int32Array(grown.buffer);
+    }
+    this.key[this.length++] = x;
+  }
+
+  private role(net: number): number {
+    if (net === POWER_END) return ROLE_POWER;
+    if (net === GROUND_END) return ROLE_GROUND;
+    const r = this.env.railOf(net);
+    if (r) return r === 'power' ? ROLE_POWER : ROLE_GROUND;
+    if (net === this.stage.output) return ROLE_OUTPUT;
+    const i = this.stage.inputs.indexOf(net);
+    if (i >= 0) return ROLE_INPUT - i;
+    let x = this.local.indexOf(net);
+    if (x < 0) x = this.local.push(net) - 1;
+    return x;
+  }
+
+  private shape(n: Network | null): void {
+    if (!n) return this.push(TAG_NONE);
+    if (n.kind === 'leaf') {
+      this.push(TAG_LEAF);
+      this.push(n.element);
+      this.push(this.role(n.a));
+      this.push(this.role(n.b));
+      return;
+    }
+    this.push(n.kind === 'parallel' ? TAG_PARALLEL : TAG_SERIES);
+    this.push(n.children.length);
+    for (let i = 0; i < n.children.length; i++) this.shape(n.children[i]);
+    if (n.kind === 'series') {
+      this.push(n.nodes.length);
+      for (let i = 0; i < n.nodes.length; i++) this.push(this.role(n.nodes[i]));
     }
   }
-  const shape = (n: Network): string => {
-    if (n.kind === 'leaf') return n.element + ':' + role(n.a) + '-' + role(n.b);
-    let inner = '';
-    for (let i = 0; i < n.children.length; i++) inner += (i ? ' ' : '') + shape(n.children[i]);
-    if (n.kind === 'parallel') return 'P(' + inner + ')';
-    let nodes = '';
-    for (let i = 0; i < n.nodes.length; i++) nodes += (i ? ',' : '') + role(n.nodes[i]);
-    return 'S(' + inner + ')[' + nodes + ']';
-  };
-  key += ';' + (stage.pullUp ? shape(stage.pullUp) : '-') + ';' + (stage.pullDown ? shape(stage.pullDown) : '-');
-  return key;
 }
+
+/** Analyses by stage signature: buckets by hash, entries compared number by number. */
+class SignatureTable {
+  private readonly buckets = new Map<number, { key: Float64Array; value: CachedStage }[]>();
+
+  get(encoder: SignatureEncoder, hash: number): CachedStage | undefined {
+    const bucket = this.buckets.get(hash);
+    if (bucket) for (const e of bucket) if (encoder.equals(e.key)) return e.value;
+    return undefined;
+  }
+
+  set(key: Float64Array, hash: number, value: CachedStage): void {
+    const entry = { key, value };
+    const bucket = this.buckets.get(hash);
+    if (bucket) bucket.push(entry);
+    else this.buckets.set(hash, [entry]);
+  }
+}
+
+const encoder = new SignatureEncoder();
 
 const lowerNames = new Map<string, string>();
 
@@ -379,19 +546,63 @@ class StageAnalysisView implements StageAnalysis {
 
   get inputs(): InputAnalysis[] {
     if (!this.cached) return [];
-    const nets = this.stage.inputs;
     const out: InputAnalysis[] = [];
-    for (const ci of this.cached.inputs) {
-      if (ci.netFree === undefined) ci.netFree = ci.corners.every((c) => c.cases.every((x) => x.held.length === 0)) ? cornerViews(ci.corners, nets) : null;
-      if (ci.netFree) {
-        // No held inputs: nothing net-specific below the input, so every stage of the signature shares one set of corner objects.
-        out.push({ input: nets[ci.input], corners: ci.netFree });
-        continue;
-      }
-      out.push({ input: nets[ci.input], corners: cornerViews(ci.corners, nets) });
-    }
+    for (let i = 0; i < this.cached.inputs.length; i++) out.push(this.inputAt(i));
     return out;
   }
+
+  input(net: number): InputAnalysis | undefined {
+    if (!this.cached) return undefined;
+    const nets = this.stage.inputs;
+    for (let i = 0; i < this.cached.inputs.length; i++) if (nets[this.cached.inputs[i].input] === net) return this.inputAt(i);
+    return undefined;
+  }
+
+  weakestGain(): StageExtreme | null {
+    if (!this.cached) return null;
+    if (this.cached.weakest === undefined) this.cached.weakest = weakestAt(this.cached);
+    return this.extremeAt(this.cached.weakest);
+  }
+
+  smallestMargin(): StageExtreme | null {
+    if (!this.cached) return null;
+    if (this.cached.narrowest === undefined) this.cached.narrowest = narrowestAt(this.cached);
+    return this.extremeAt(this.cached.narrowest);
+  }
+
+  private extremeAt(at: ExtremeAt | null): StageExtreme | null {
+    return at ? new ExtremeView(this.cached!.inputs[at.input], at, this.stage.inputs) : null;
+  }
+
+  private inputAt(i: number): InputAnalysis {
+    const ci = this.cached!.inputs[i];
+    const nets = this.stage.inputs;
+    return { input: nets[ci.input], corners: netFreeViews(ci, nets) ?? cornerViews(ci.corners, nets) };
+  }
+}
+
+class ExtremeView implements StageExtreme {
+  readonly input: number;
+  readonly value: number;
+  constructor(
+    private readonly cached: CachedStage['inputs'][number],
+    private readonly at: ExtremeAt,
+    private readonly nets: readonly number[],
+  ) {
+    this.input = nets[cached.input];
+    this.value = at.value;
+  }
+
+  get corner(): CornerAnalysis {
+    const shared = netFreeViews(this.cached, this.nets);
+    return shared ? shared[this.at.corner] : cornerViews(this.cached.corners.slice(this.at.corner, this.at.corner + 1), this.nets)[0];
+  }
+}
+
+/** No held inputs: nothing net-specific below the input, so every stage of the signature shares one set of corner objects. */
+function netFreeViews(ci: CachedStage['inputs'][number], nets: readonly number[]): CornerAnalysis[] | null {
+  if (ci.netFree === undefined) ci.netFree = ci.corners.every((c) => c.cases.every((x) => x.held.length === 0)) ? cornerViews(ci.corners, nets) : null;
+  return ci.netFree;
 }
 
 function cornerViews(cachedCorners: CachedStage['inputs'][number]['corners'], nets: readonly number[]): CornerAnalysis[] {
@@ -417,12 +628,14 @@ export function analyseStage(env: StageEnvironment, stage: Stage): StageAnalysis
   if (stage.inputs.length > MAX_ANALYSED_INPUTS) return new StageAnalysisView(stage, null, `${stage.inputs.length} inputs: beyond the ${MAX_ANALYSED_INPUTS} whose held values can be enumerated`);
   const memo = memoOf(env.design);
   let byDeck = memo.stages.get(env.deck);
-  if (!byDeck) memo.stages.set(env.deck, (byDeck = new Map()));
-  const signature = stageSignature(env, stage);
-  let cached = byDeck.get(signature);
+  if (!byDeck) memo.stages.set(env.deck, (byDeck = new SignatureTable()));
+  encoder.encode(env, stage);
+  const hash = encoder.hash();
+  let cached = byDeck.get(encoder, hash);
   if (!cached) {
+    const key = encoder.key.slice(0, encoder.length);
     cached = solveStage(env, stage, memo);
-    byDeck.set(signature, cached);
+    byDeck.set(key, hash, cached);
     memo.stats.signatures++;
   }
   return new StageAnalysisView(stage, cached, cached.inputs.length ? null : 'no input controls the output on its own');

@@ -273,7 +273,9 @@ export function extractStages(cell: Cell, rails: readonly (RailKind | undefined)
     return r === RAIL_POWER ? POWER_END : r === RAIL_GROUND ? GROUND_END : net;
   };
 
-  const makeStage = (edgeList: number[], kind: Stage['kind'], output: number | null, terminals: number[], local: Map<number, number>): Stage => {
+  // Each edge belongs to one stage: its position among that stage's elements, shared by every stage (no map per stage).
+  const elementAt = new Int32Array(edgeCount);
+  const makeStage = (edgeList: number[], kind: Stage['kind'], output: number | null, terminals: number[]): Stage => {
     const sorted = edgeList.slice();
     // Transistors come in netlist order already; only mixed or multi-file stages need the full comparison.
     if (sorted.length > 1) {
@@ -288,7 +290,7 @@ export function extractStages(cell: Cell, rails: readonly (RailKind | undefined)
     for (let k = 0; k < sorted.length; k++) {
       const e = sorted[k];
       elements[k] = elementOf(e);
-      local.set(e, k);
+      elementAt[e] = k;
       if (!railCode[edgeA[e]] && !stageNets.includes(edgeA[e])) stageNets.push(edgeA[e]);
       if (!railCode[edgeB[e]] && !stageNets.includes(edgeB[e])) stageNets.push(edgeB[e]);
     }
@@ -323,11 +325,11 @@ export function extractStages(cell: Cell, rails: readonly (RailKind | undefined)
     };
   };
 
-  const leaves = (list: number[], local: Map<number, number>): Network[] => {
+  const leaves = (list: number[]): Network[] => {
     const out: Network[] = new Array(list.length);
     for (let k = 0; k < list.length; k++) {
       const e = list[k];
-      out[k] = { kind: 'leaf', element: local.get(e)!, a: endOf(edgeA[e]), b: endOf(edgeB[e]) };
+      out[k] = { kind: 'leaf', element: elementAt[e], a: endOf(edgeA[e]), b: endOf(edgeB[e]) };
     }
     return out;
   };
@@ -383,10 +385,9 @@ export function extractStages(cell: Cell, rails: readonly (RailKind | undefined)
         for (const x of split.auxiliary) auxiliary.push(x);
       }
     }
-    const local = new Map<number, number>();
-    const stage = makeStage(all, 'other', out, [out], local);
+    const stage = makeStage(all, 'other', out, [out]);
     for (const n of notes) stage.notes.push(n);
-    for (const x of auxiliary) stage.auxiliary.push({ element: local.get(x.edge)!, node: x.node, rail: x.rail } satisfies AuxiliaryDevice);
+    for (const x of auxiliary) stage.auxiliary.push({ element: elementAt[x.edge], node: x.node, rail: x.rail } satisfies AuxiliaryDevice);
     if (ok) {
       let upEdges = up;
       let downEdges = down;
@@ -396,8 +397,8 @@ export function extractStages(cell: Cell, rails: readonly (RailKind | undefined)
         upEdges = up.filter((e) => !auxSet.has(e));
         downEdges = down.filter((e) => !auxSet.has(e));
       }
-      const pu = reduceSeriesParallel(leaves(upEdges, local), out, POWER_END);
-      const pd = reduceSeriesParallel(leaves(downEdges, local), out, GROUND_END);
+      const pu = reduceSeriesParallel(leaves(upEdges), out, POWER_END);
+      const pd = reduceSeriesParallel(leaves(downEdges), out, GROUND_END);
       stage.pullUp = pu.network;
       stage.pullDown = pd.network;
       if (pu.network === null && upEdges.length) stage.notes.push(`pull-up is not series/parallel (${pu.reason})`);
@@ -412,17 +413,15 @@ export function extractStages(cell: Cell, rails: readonly (RailKind | undefined)
     const all: number[] = [];
     for (const info of infos) for (const e of info.edges) all.push(e);
     const terminals = sortAscending(infos[0].observed.slice());
-    const local = new Map<number, number>();
-    const stage = makeStage(all, 'pass', null, terminals, local);
-    if (terminals.length === 2) stage.channel = reduceSeriesParallel(leaves(all, local), terminals[0], terminals[1]).network;
+    const stage = makeStage(all, 'pass', null, terminals);
+    if (terminals.length === 2) stage.channel = reduceSeriesParallel(leaves(all), terminals[0], terminals[1]).network;
     else stage.notes.push(`joins ${terminals.length} observed nets`);
     stages.push(stage);
   }
 
   for (const info of loose) {
-    const local = new Map<number, number>();
     const terminals = sortAscending(info.observed.slice());
-    const stage = makeStage(info.edges, 'other', null, terminals, local);
+    const stage = makeStage(info.edges, 'other', null, terminals);
     stage.notes.push(
       info.observed.length === 0 ? 'no observed output' : 'joins several observed nets and the rails through shared internal nodes',
     );
