@@ -76,6 +76,9 @@ export default function NetlistEditor({
   const highlightsRef = useRef(highlights);
   const marksRef = useRef(marks);
   const revealLineRef = useRef(revealLine);
+  /** When the finding's line was last revealed: a re-layout soon after reveals it again if it fell out of view. */
+  const revealedAtRef = useRef(0);
+  const revealCheckRef = useRef<number | undefined>(undefined);
   const onMarkClickRef = useRef(onMarkClick);
   const onOpenFileRef = useRef(onOpenFile);
   const onNavigateRef = useRef(onNavigateFinding);
@@ -154,8 +157,32 @@ export default function NetlistEditor({
       if (mark) onMarkClickRef.current?.(mark);
     });
     applyDecorations();
-    if (revealLineRef.current) editor.revealLineInCenter(revealLineRef.current);
+    // A reveal made before the editor has its final size, or a smooth scroll cut short by a
+    // re-layout, can leave the line out of view: a layout change soon after reveals it again.
+    editor.onDidLayoutChange(() => {
+      if (Date.now() - revealedAtRef.current < 3000) keepLineInView(editor);
+    });
+    if (revealLineRef.current) revealFindingLine(false);
   };
+
+  function keepLineInView(editor: monaco.editor.IStandaloneCodeEditor) {
+    const line = revealLineRef.current;
+    if (!line || editorRef.current !== editor) return;
+    const inView = editor.getVisibleRanges().some((r) => r.startLineNumber <= line && line <= r.endLineNumber);
+    if (!inView) editor.revealLineInCenter(line, monaco.editor.ScrollType.Immediate);
+  }
+
+  function revealFindingLine(smooth: boolean) {
+    const editor = editorRef.current;
+    const line = revealLineRef.current;
+    if (!editor || !line) return;
+    editor.revealLineInCenter(line, smooth ? monaco.editor.ScrollType.Smooth : monaco.editor.ScrollType.Immediate);
+    revealedAtRef.current = Date.now();
+    window.clearTimeout(revealCheckRef.current);
+    revealCheckRef.current = window.setTimeout(() => keepLineInView(editor), 500);
+  }
+
+  useEffect(() => () => window.clearTimeout(revealCheckRef.current), []);
 
   function applyDecorations() {
     const editor = editorRef.current;
@@ -168,7 +195,7 @@ export default function NetlistEditor({
   // A finding's line is revealed whenever it or the file changes; a pending definition (just
   // switched to its file) comes after and wins.
   useEffect(() => {
-    if (revealLine && editorRef.current) editorRef.current.revealLineInCenter(revealLine, monaco.editor.ScrollType.Smooth);
+    revealFindingLine(true);
   }, [revealLine, fileName]);
 
   useEffect(() => {
