@@ -75,6 +75,9 @@ describe('findings table', () => {
     const { api } = await openRun();
     const user = userEvent.setup();
     const filters = screen.getByRole('search', { name: 'Filter findings' });
+    // One option per rule, counting its findings of every severity (the breakdown has a warning and an info row).
+    const options = within(within(filters).getByRole('combobox', { name: 'Rule' })).getAllByRole('option');
+    expect(options.filter((o) => (o as HTMLOptionElement).value === 'stage.noise-margin').map((o) => o.textContent)).toEqual(['Noise margin too small (2)']);
     await user.selectOptions(within(filters).getByRole('combobox', { name: 'Rule' }), 'stage.noise-margin');
     await waitFor(() => expect(tableRows()).toHaveLength(2));
     expect(tableQueries(api).at(-1)!.rule).toEqual(['stage.noise-margin']);

@@ -1,5 +1,5 @@
 import '@testing-library/jest-dom/vitest';
-import { cleanup } from '@testing-library/react';
+import { cleanup, configure } from '@testing-library/react';
 import { afterEach, vi } from 'vitest';
 
 // jsdom has no matchMedia; Monaco's theme service asks it about forced colours.
@@ -17,6 +17,10 @@ if (!window.matchMedia) {
     }) as MediaQueryList;
 }
 window.scrollTo = () => {};
+
+// The deck, run and report pages load on first visit (lazy routes); on a loaded machine the
+// first import in a test file takes longer than Testing Library's default 1 s for findBy queries.
+configure({ asyncUtilTimeout: 5000 });
 
 afterEach(() => {
   cleanup();

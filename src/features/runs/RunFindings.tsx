@@ -64,7 +64,10 @@ export function RunFindings({ run }: { run: RunDetail }) {
   }
 
   const breakdown = run.breakdown;
-  const ruleOptions = (breakdown?.byRule ?? []).map((r) => ({ id: r.ruleId, findings: r.findings }));
+  // The breakdown has a row per rule and severity (a rule's findings may differ in severity); the filter has one per rule.
+  const findingsByRule = new Map<string, number>();
+  for (const r of breakdown?.byRule ?? []) findingsByRule.set(r.ruleId, (findingsByRule.get(r.ruleId) ?? 0) + r.findings);
+  const ruleOptions = [...findingsByRule].map(([id, findings]) => ({ id, findings }));
   const cellOptions = (breakdown?.byCell ?? []).map((c) => ({ cell: c.cell, findings: c.findings }));
   const totalFindings = run.summary ? run.summary.errors + run.summary.warnings + run.summary.infos : null;
 
