@@ -24,7 +24,7 @@ const browser = await launchBrowser();
 // progress bar is on screen long enough to be watched. The roles journey waits for those runs.
 for (const [name, journey] of [
   ['waiver and deck', async () => {
-    const { blockId } = await waiverJourney(browser, keepwell.base, keepwell.smtp!, checks);
+    const { blockId } = await waiverJourney(browser, keepwell.base, keepwell.smtp!, checks, keepwell.holdQueue);
     await deckJourney(browser, keepwell.base, blockId, checks);
   }],
   ['roles', () => rolesJourney(browser, keepwell.base, checks)],

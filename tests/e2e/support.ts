@@ -11,12 +11,14 @@ import crypto from 'node:crypto';
 import net from 'node:net';
 import path from 'node:path';
 import pg from 'pg';
+import { Queue } from 'bullmq';
 import { Redis } from 'ioredis';
 import type { Locator, Page } from 'playwright-core';
 import { build } from 'vite';
 import { loadConfig, repoRoot } from '../../server/config';
 import { runMigrations } from '../../server/db/migrate';
 import { initModels } from '../../server/db/models';
+import { queuePrefix, RUN_QUEUE } from '../../server/queue';
 import { createSequelize } from '../../server/db/sequelize';
 import { startServices } from '../../server/dev/services';
 import { startFakeSmtp, type FakeSmtp } from '../../server/mail/fake-smtp';
@@ -85,6 +87,12 @@ export interface OwnKeepwell {
   base: string;
   /** The mail catcher the server and worker send to, when asked for. */
   smtp: FakeSmtp | null;
+  /**
+   * Hold the run queue (BullMQ's global pause: workers take no new job) until the returned
+   * function resumes it, so a journey can watch a run that has not started yet on a machine
+   * fast enough to finish it before the page shows.
+   */
+  holdQueue(): Promise<() => Promise<void>>;
   stop(): Promise<void>;
 }
 
@@ -150,6 +158,16 @@ export async function startKeepwell(label: string, options: { captureMail?: bool
   return {
     base,
     smtp,
+    holdQueue: async () => {
+      const connection = new Redis(redisUrl, { maxRetriesPerRequest: null });
+      const queue = new Queue(RUN_QUEUE, { connection, prefix: queuePrefix({ redisPrefix }) });
+      await queue.pause();
+      return async () => {
+        await queue.resume();
+        await queue.close();
+        connection.disconnect();
+      };
+    },
     stop: async () => {
       for (const child of children) if (child.exitCode === null) child.kill('SIGTERM');
       await Promise.all(children.map((c) => (c.exitCode !== null ? null : new Promise((r) => c.once('exit', r)))));

@@ -63,7 +63,7 @@ export async function waitForRun(page: Page, runId: string): Promise<RunView> {
   return run;
 }
 
-export async function waiverJourney(browser: Browser, base: string, smtp: FakeSmtp, checks: Checks): Promise<{ blockId: string }> {
+export async function waiverJourney(browser: Browser, base: string, smtp: FakeSmtp, checks: Checks, holdQueue: () => Promise<() => Promise<void>>): Promise<{ blockId: string }> {
   const check = checks.check.bind(checks);
   const say = checks.say.bind(checks);
   const designer = DEMO_USERS.find((u) => u.roles.includes('designer'))!;
@@ -83,17 +83,21 @@ export async function waiverJourney(browser: Browser, base: string, smtp: FakeSm
   const blockId = new URL(page.url()).pathname.split('/').pop()!;
   check(true, `the designer made block ${JOURNEY_BLOCK}`);
 
-  const runId = await submitThroughForm(page, blockId, 'First check of the carry chain.', { watchProgress: true });
-  // Follow the run until its state says it has finished; photograph the bar when it is in view.
-  const finished = page.locator('[data-state="succeeded"], [data-state="failed"]').first();
+  // The queue is held while the run is submitted, so its page shows it waiting whatever the
+  // machine's speed; then the worker may take it, and the page follows it to the end.
+  const resume = await holdQueue();
+  let runId: string;
   const bar = page.getByRole('progressbar').first();
-  for (let shot = false, deadline = Date.now() + 180_000; !(await finished.isVisible()) && Date.now() < deadline; ) {
-    if (!shot && (await bar.isVisible())) {
-      say(`screenshot ${await screenshot(page, 'waiver-1-progress', { folder: 'e2e', fullPage: false })}`);
-      shot = true;
-    }
-    await page.waitForTimeout(50);
+  try {
+    runId = await submitThroughForm(page, blockId, 'First check of the carry chain.', { watchProgress: true });
+    await bar.waitFor({ timeout: 20_000 });
+    say(`screenshot ${await screenshot(page, 'waiver-1-progress', { folder: 'e2e', fullPage: false })}`);
+  } finally {
+    await resume();
   }
+  // Follow the run until its state says it has finished.
+  const finished = page.locator('[data-state="succeeded"], [data-state="failed"]').first();
+  for (const deadline = Date.now() + 180_000; !(await finished.isVisible()) && Date.now() < deadline; ) await page.waitForTimeout(50);
   const first = await waitForRun(page, runId);
   const readings = (await page.evaluate('window.keepwellBarReadings')) as string[];
   say(`progress bar readings: ${readings.join(' → ')}`);
