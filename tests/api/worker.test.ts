@@ -70,9 +70,11 @@ describe('a run through a worker process', () => {
     expect(res.body.upload.reused).toBe(false);
     const runId: string = res.body.run.id;
 
+    // The state before any worker exists, read through the API like the later ones (a fast worker
+    // takes the run before the first poll after its start).
+    const seen: string[] = [(await agent.get(`/api/runs/${runId}`).expect(200)).body.state];
     const worker = spawnWorker();
     await worker.ready;
-    const seen: string[] = [];
     let sawProgress = false;
     const run = await waitForRun(agent, runId, (r) => {
       if (r.state === 'running' && r.progress && r.progress.stage === 'checking' && r.progress.total > 0) sawProgress = true;
