@@ -4,17 +4,7 @@
 //
 // The scenario is invented: "Harrow", a made-up datapath block of a made-up chip.
 
-/** Deterministic PRNG (mulberry32) so every run measures the same text. */
-function prng(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
+import { prng } from '../support/prng';
 
 /**
  * A flat block of about `transistors` devices in one subcircuit, written the way

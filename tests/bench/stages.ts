@@ -15,17 +15,7 @@ import { analysisStats, extractStages, stageAnalysesOf, stagesOf } from '../../r
 import { defineRule, type RuleModule } from '../../rules/types';
 import { z } from 'zod';
 import { CellBuilder, designOf } from '../support/cell-builder';
-
-function prng(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
+import { prng } from '../support/prng';
 
 const L = 0.15e-6;
 // 16 widths per polarity and gate type: 8 types × 256 sizings ≈ 2000 distinct static stages.

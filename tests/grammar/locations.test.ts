@@ -7,18 +7,8 @@
 import { describe, expect, it } from 'vitest';
 import { parseNetlist, type Cell, type Design, type SourceLoc } from '../../grammar/index';
 import { read } from './helpers';
+import { prng } from '../support/prng';
 
-/** Deterministic PRNG (mulberry32), so that the generated netlist is the same on every run. */
-function prng(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
 
 /** A body of MOSFET lines in an invented "Tarnby" clock-buffer block, with continuations, comments, blank lines and mixed line ends. */
 function generateBody(rand: () => number, prefix: string, count: number, eol: () => string): string {
