@@ -9,6 +9,14 @@ import type { CheckOutcome, CheckRequest, ThreadMessage, ThreadStage } from './c
 
 const threadEntry = new URL('./check-thread.ts', import.meta.url).href;
 const tsxApi = import.meta.resolve('tsx/esm/api');
+/**
+ * Young generation of a check thread (two semi-spaces of 32 MB and V8's matching new large-object space). A check of a
+ * big flat netlist makes millions of short-lived objects; V8's default young generation of a few megabytes makes it
+ * spend about a quarter of its time in scavenges. The command line (`npm run keepwell`) runs with the same
+ * `--max-semi-space-size=32`, and so do the netlist benchmark's children.
+ */
+export const CHECK_THREAD_YOUNG_GENERATION_MB = 96;
+
 const bootstrap = `import(${JSON.stringify(tsxApi)}).then((tsx) => tsx.tsImport(${JSON.stringify(threadEntry)}, ${JSON.stringify(import.meta.url)}))`;
 
 export class CancelledError extends Error {
@@ -26,7 +34,7 @@ export class CheckThreads {
   constructor(private readonly size: number) {}
 
   private spawn(): Worker {
-    const worker = new Worker(bootstrap, { eval: true });
+    const worker = new Worker(bootstrap, { eval: true, resourceLimits: { maxYoungGenerationSizeMb: CHECK_THREAD_YOUNG_GENERATION_MB } });
     worker.unref();
     this.all.add(worker);
     worker.once('exit', () => {

@@ -273,7 +273,8 @@ async function runChild(kind: CaseName, file: string): Promise<CaseResult> {
   const { fileURLToPath } = await import('node:url');
   const self = fileURLToPath(import.meta.url);
   return new Promise((resolvePromise, reject) => {
-    const child = spawn(process.execPath, ['--import', 'tsx', self, '--child', kind, file], { stdio: ['ignore', 'pipe', 'inherit'] });
+    // The V8 young-generation size the worker's check threads and the command line use (server/worker/threads.ts).
+    const child = spawn(process.execPath, ['--max-semi-space-size=32', '--import', 'tsx', self, '--child', kind, file], { stdio: ['ignore', 'pipe', 'inherit'] });
     let out = '';
     child.stdout.on('data', (d: Buffer) => (out += d.toString()));
     child.on('error', reject);
