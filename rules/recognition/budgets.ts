@@ -24,6 +24,7 @@ import { ModelResolver } from '../electrical/parameters';
 import { analyseStage } from '../stages';
 import type { CellContext } from '../types';
 import { cellIndex, childContext, designMemo, stageEnvironmentOf } from './context';
+import { NumberKey, NumberKeyTable, StringCodes } from './number-key';
 import type { DynamicNode } from './dynamic';
 
 export interface Threshold {
@@ -53,21 +54,33 @@ export interface CornerBudget {
 export function dynamicBudgets(d: DynamicNode): CornerBudget[] {
   return d.ctx.memo(`recognition.budgets.${d.node}`, () => {
     const hood = neighbourhood(d);
-    const electrical = designMemo(d.ctx.design, d.ctx.deck, `dynamic-budget|${hood.signature}`, () => solve(d, hood));
+    encodeNeighbourhood(d, hood, hoodKey);
+    const table = designMemo(d.ctx.design, d.ctx.deck, 'dynamic-budgets', () => new NumberKeyTable<ElectricalBudget[]>());
+    const electrical = table.getOrCompute(hoodKey, () => solve(d, hood));
     const thresholds = receiverThresholds(d);
     return electrical.map((e, i) => ({ ...e, threshold: thresholds[i] }));
   });
 }
 
+/** The node's stage, every device with a terminal on the node or on a stack node of its stage, and the capacitors there. */
 interface Neighbourhood {
-  cell: Cell;
+  /** Devices of the neighbourhood, with the index each has in the context's cell. */
+  mosfets: Cell['mosfets'];
+  mosSource: number[];
+  others: Cell['others'];
+  /** The stage's elements, indexing `mosfets` and `others`. */
   elements: ElementRef[];
-  signature: string;
   /** Stack nodes a secondary precharge device holds at the node's precharge level. */
   precharged: Set<number>;
-  /** Per keeper: the devices and shapes of the keeper and of the evaluation network, all that its ratio depends on. */
-  keeperSignatures: string[];
+  /** Role of a net in the signature: P supply, G ground, N the node, then 0, 1, … in order of first sight. */
+  role(net: number): number;
 }
+
+const ROLE_POWER = -1;
+const ROLE_GROUND = -2;
+const ROLE_NODE = -3;
+const hoodKey = new NumberKey();
+const codes = new StringCodes();
 
 function neighbourhood(d: DynamicNode): Neighbourhood {
   const { ctx, stage } = d;
@@ -76,11 +89,13 @@ function neighbourhood(d: DynamicNode): Neighbourhood {
   const mosMap = new Map<number, number>();
   const otherMap = new Map<number, number>();
   const mosfets: Cell['mosfets'] = [];
+  const mosSource: number[] = [];
   const others: Cell['others'] = [];
   const addMos = (i: number) => {
     if (!mosMap.has(i)) {
       mosMap.set(i, mosfets.length);
       mosfets.push(cell.mosfets[i]);
+      mosSource.push(i);
     }
   };
   const addOther = (i: number) => {
@@ -90,52 +105,119 @@ function neighbourhood(d: DynamicNode): Neighbourhood {
     }
   };
   for (const el of stage.elements) (el.kind === 'mos' ? addMos : addOther)(el.index);
-  for (const x of [d.node, ...stage.internal]) {
-    for (const i of index.channel.of(x)) addMos(i);
-    for (const i of index.gates.of(x)) addMos(i);
-    for (const i of index.others.of(x)) if (cell.others[i].kind === 'cap') addOther(i);
-  }
+  const gather = (x: number) => {
+    const channel = index.channel.of(x);
+    for (let k = 0; k < channel.length; k++) addMos(channel[k]);
+    const gates = index.gates.of(x);
+    for (let k = 0; k < gates.length; k++) addMos(gates[k]);
+    const os = index.others.of(x);
+    for (let k = 0; k < os.length; k++) if (cell.others[os[k]].kind === 'cap') addOther(os[k]);
+  };
+  gather(d.node);
+  for (const x of stage.internal) gather(x);
   const elements: ElementRef[] = stage.elements.map((el) => ({ kind: el.kind, index: (el.kind === 'mos' ? mosMap : otherMap).get(el.index)! }));
-  const sub: Cell = { ...cell, mosfets, others };
-
-  // Structural signature: devices with the roles of their nets, capacitors, the stage's networks and its recognised parts.
   const alias = index.alias;
-  const roles = new Map<number, string>();
-  const role = (net: number): string => {
-    if (net < 0) return net === -1 ? 'P' : 'G';
+  const roles = new Map<number, number>();
+  const role = (net: number): number => {
+    if (net < 0) return net === -1 ? ROLE_POWER : ROLE_GROUND;
     const x = alias[net];
     const r = index.railOf(x);
-    if (r) return r === 'power' ? 'P' : 'G';
-    if (x === d.node) return 'N';
+    if (r) return r === 'power' ? ROLE_POWER : ROLE_GROUND;
+    if (x === d.node) return ROLE_NODE;
     let v = roles.get(x);
-    if (v === undefined) roles.set(x, (v = 'n' + roles.size));
+    if (v === undefined) roles.set(x, (v = roles.size));
     return v;
   };
-  const parts: string[] = [d.style];
-  for (const m of mosfets) parts.push(`${m.polarity}${m.w},${m.l},${m.m},${m.model.toLowerCase()}:${role(m.drain)}${role(m.gate)}${role(m.source)}${role(m.bulk)}`);
-  for (const o of others) {
-    if (o.kind === 'cap' || o.kind === 'res') parts.push(`${o.kind}${o.value}:${role(o.a)}${role(o.b)}`);
-  }
-  const shape = (n: Network): string =>
-    n.kind === 'leaf' ? `${elements[n.element].kind}${elements[n.element].index}` : `${n.kind[0]}(${n.children.map(shape).join(' ')})`;
-  parts.push(`E${shape(d.evaluation)}`);
-  for (const k of d.keepers) parts.push(`K${k.kind}${shape(k.network)}`);
-  parts.push(`F${d.footers.map((e) => elements[e].index).join(',')}`);
   const precharged = new Set<number>();
   for (const a of stage.auxiliary) {
     if ((a.rail === 'power') === (d.style === 'n-evaluate')) precharged.add(alias[a.node]);
   }
-  parts.push(`A${[...precharged].map(role).join(',')}`);
-  const deviceOf = (n: Network): string =>
-    n.kind === 'leaf'
-      ? (() => {
-          const m = mosfets[elements[n.element].index];
-          return elements[n.element].kind === 'mos' ? `${m.polarity}${m.w},${m.l},${m.m},${m.model.toLowerCase()},${role(m.bulk)}` : 'r';
-        })()
-      : `${n.kind[0]}(${n.children.map(deviceOf).join(' ')})`;
+  return { mosfets, mosSource, others, elements, precharged, role };
+}
+
+/**
+ * Structural signature of a neighbourhood: the style, each device (polarity, W, L, multiplier, model and the roles of
+ * its nets), capacitors and resistors, the shapes of the evaluation network and the keepers, the footers and the
+ * precharged stack nodes. Every list is preceded by its length, so that no two neighbourhoods share a key.
+ */
+function encodeNeighbourhood(d: DynamicNode, hood: Neighbourhood, key: NumberKey): void {
+  const { mosfets, others, elements, role } = hood;
+  key.reset();
+  key.push(codes.of(d.style));
+  key.push(mosfets.length);
+  for (const m of mosfets) {
+    key.push(m.polarity === 'n' ? 0 : 1);
+    key.push(m.w);
+    key.push(m.l);
+    key.push(m.m);
+    key.push(codes.of(lowerCase(m.model)));
+    key.push(role(m.drain));
+    key.push(role(m.gate));
+    key.push(role(m.source));
+    key.push(role(m.bulk));
+  }
+  let passive = 0;
+  for (const o of others) if (o.kind === 'cap' || o.kind === 'res') passive++;
+  key.push(passive);
+  for (const o of others) {
+    if (o.kind !== 'cap' && o.kind !== 'res') continue;
+    key.push(o.kind === 'cap' ? 0 : 1);
+    key.push(o.value);
+    key.push(role(o.a));
+    key.push(role(o.b));
+  }
+  const shape = (n: Network): void => {
+    if (n.kind === 'leaf') {
+      key.push(0);
+      key.push(elements[n.element].kind === 'mos' ? 0 : 1);
+      key.push(elements[n.element].index);
+      return;
+    }
+    key.push(n.kind === 'series' ? 1 : 2);
+    key.push(n.children.length);
+    for (const c of n.children) shape(c);
+  };
+  shape(d.evaluation);
+  key.push(d.keepers.length);
+  for (const k of d.keepers) {
+    key.push(codes.of(k.kind));
+    shape(k.network);
+  }
+  key.push(d.footers.length);
+  for (const e of d.footers) key.push(elements[e].index);
+  key.push(hood.precharged.size);
+  for (const x of hood.precharged) key.push(role(x));
+}
+
+/** The neighbourhood as a small cell of its own: the node's nets, and only its devices. */
+function neighbourhoodCell(cell: Cell, hood: Neighbourhood): Cell {
+  return { ...cell, mosfets: hood.mosfets, others: hood.others };
+}
+
+/** Per keeper: the devices and shapes of the keeper and of the evaluation network, all that its ratio depends on. */
+function keeperSignatures(d: DynamicNode, hood: Neighbourhood): string[] {
+  const { mosfets, elements, role } = hood;
+  const deviceOf = (n: Network): string => {
+    if (n.kind !== 'leaf') return `${n.kind[0]}(${n.children.map(deviceOf).join(' ')})`;
+    const el = elements[n.element];
+    if (el.kind !== 'mos') return 'r';
+    const m = mosfets[el.index];
+    return `${m.polarity}${m.w},${m.l},${m.m},${lowerCase(m.model)},${role(m.bulk)}`;
+  };
   const evalSig = deviceOf(d.evaluation);
-  const keeperSignatures = d.keepers.map((k) => `${d.style}|${deviceOf(k.network)}|${evalSig}`);
-  return { cell: sub, elements, signature: parts.join(';'), precharged, keeperSignatures };
+  return d.keepers.map((k) => `${d.style}|${deviceOf(k.network)}|${evalSig}`);
+}
+
+const lowerNames = new Map<string, string>();
+
+/** Model names in lower case, converted once per distinct name. */
+function lowerCase(name: string): string {
+  let lower = lowerNames.get(name);
+  if (lower === undefined) {
+    lower = name.toLowerCase();
+    if (lowerNames.size < 4096) lowerNames.set(name, lower);
+  }
+  return lower;
 }
 
 /**
@@ -150,6 +232,8 @@ type ElectricalBudget = Omit<CornerBudget, 'threshold'>;
 
 function solve(d: DynamicNode, hood: Neighbourhood): ElectricalBudget[] {
   const { ctx } = d;
+  const cell = neighbourhoodCell(ctx.cell, hood);
+  const keeperKeys = keeperSignatures(d, hood);
   const index = cellIndex(ctx);
   const railOf = (net: number): RailKind | undefined => index.railOf(net);
   const held = new Map<number, boolean>();
@@ -159,13 +243,13 @@ function solve(d: DynamicNode, hood: Neighbourhood): ElectricalBudget[] {
     held.set(index.alias[ctx.cell.mosfets[el.index].gate], levels[i]);
   });
   return ctx.deck.corners.map((corner) => {
-    const base = { cell: hood.cell, corner, elements: hood.elements, railOf, alias: index.alias };
-    const capacitance = nodeCapacitance(hood.cell, d.node, corner, index.alias).total;
+    const base = { cell, corner, elements: hood.elements, railOf, alias: index.alias };
+    const capacitance = nodeCapacitance(cell, d.node, corner, index.alias).total;
     const chargeSharing = worstChargeSharing({ ...base, node: d.node, network: d.evaluation, held });
     let drop = chargeSharing.drop;
     if (hood.precharged.size) {
       let cPre = 0;
-      for (const x of chargeSharing.sharedNets) if (hood.precharged.has(x)) cPre += nodeCapacitance(hood.cell, x, corner, index.alias).total;
+      for (const x of chargeSharing.sharedNets) if (hood.precharged.has(x)) cPre += nodeCapacitance(cell, x, corner, index.alias).total;
       const cDischarged = Math.max(chargeSharing.cShared - cPre, 0);
       const total = capacitance + cPre + cDischarged;
       drop = total > 0 ? (corner.vdd * cDischarged) / total : 0;
@@ -173,7 +257,7 @@ function solve(d: DynamicNode, hood: Neighbourhood): ElectricalBudget[] {
     const drive = { ...base, models: ctx.design.models, useNetlistModels: ctx.deck.useNetlistModels };
     // The keeper's strength depends only on the keeper and the evaluation devices: memoised on those alone.
     const keepers = d.keepers.map((k, i) =>
-      designMemo(ctx.design, ctx.deck, `keeper-ratio|${corner.name}|${hood.keeperSignatures[i]}`, () => keeperRatio(drive, k.network, d.evaluation)),
+      designMemo(ctx.design, ctx.deck, `keeper-ratio|${corner.name}|${keeperKeys[i]}`, () => keeperRatio(drive, k.network, d.evaluation)),
     );
     const leakage = networkLeakage(base, d.evaluation);
     return { corner: corner.name, vdd: corner.vdd, capacitance, chargeSharing, chargeSharingDrop: drop, keepers, leakage };
