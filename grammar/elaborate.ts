@@ -937,7 +937,7 @@ class Elaborator {
     }
     let params = EMPTY_PARAMS;
     let mult: number | undefined;
-    const extra = t.extras.size ? t.extras.get(r) : undefined;
+    const extra = t.extra(r);
     if (extra) {
       params = {};
       for (const p of extra) {
