@@ -106,7 +106,10 @@ class NetlistParser extends EmbeddedActionsParser {
   private endAlts?: { ALT: () => void }[];
 
   constructor() {
-    super(netlistTokens, { recoveryEnabled: true });
+    // No error recovery: the grammar accepts every token sequence that ends with a line end
+    // (parseText appends one), so there is never anything to recover from, and with recovery
+    // on Chevrotain prepares a recovery attempt after every line's item loop.
+    super(netlistTokens, { recoveryEnabled: false });
     this.performSelfAnalysis();
   }
 
