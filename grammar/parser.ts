@@ -43,7 +43,7 @@ import {
 import { looksNumeric, NumberCache } from './numbers';
 import { Kind, Line } from './line';
 import { NameTable } from './names';
-import { hashRange, RangeIndex } from './text-hash';
+import { hashRange, RangeIndex, rangeEquals } from './text-hash';
 import { LocationCursor, lineStarts } from './source';
 
 /** SPICE element letters Keepwell does not read, and what they are. */
@@ -993,8 +993,24 @@ class FileBuilder {
 class Interner {
   private readonly names: string[] = [];
   private readonly index = new RangeIndex((e) => this.names[e], false, 256);
+  /**
+   * The last name returned for each (length, first character, last character) slot: lines
+   * repeat a handful of models (`nch`, `pch`, …), so most lookups end here after comparing
+   * a few characters, before any hashing.
+   */
+  private readonly recent: string[] = new Array<string>(64).fill('');
 
   intern(text: string, start: number, end: number): string {
+    const n = end - start;
+    const slot = n === 0 ? 0 : (n * 7 + text.charCodeAt(start) * 3 + text.charCodeAt(end - 1)) & 63;
+    const last = this.recent[slot];
+    if (last.length === n && rangeEquals(text, start, end, last, false)) return last;
+    const name = this.lookup(text, start, end);
+    this.recent[slot] = name;
+    return name;
+  }
+
+  private lookup(text: string, start: number, end: number): string {
     const h = hashRange(text, start, end, false);
     const e = this.index.find(text, start, end, h);
     if (e >= 0) return this.names[e];
