@@ -994,19 +994,27 @@ class Interner {
   private readonly names: string[] = [];
   private readonly index = new RangeIndex((e) => this.names[e], false, 256);
   /**
-   * The last name returned for each (length, first character, last character) slot: lines
-   * repeat a handful of models (`nch`, `pch`, …), so most lookups end here after comparing
-   * a few characters, before any hashing.
+   * The last two names returned for each slot of (length, first, middle and last character):
+   * lines repeat a handful of models (`nch`, `pch`, `hv_nfet_01`, `hv_pfet_01`, …), so most
+   * lookups end here after comparing a few characters, before any hashing.
    */
-  private readonly recent: string[] = new Array<string>(64).fill('');
+  private readonly recent: string[] = new Array<string>(128).fill('');
 
   intern(text: string, start: number, end: number): string {
     const n = end - start;
-    const slot = n === 0 ? 0 : (n * 7 + text.charCodeAt(start) * 3 + text.charCodeAt(end - 1)) & 63;
-    const last = this.recent[slot];
-    if (last.length === n && rangeEquals(text, start, end, last, false)) return last;
+    const slot = n === 0 ? 0 : 2 * (Math.imul(n ^ (text.charCodeAt(start) << 8) ^ (text.charCodeAt(start + (n >> 1)) << 16) ^ (text.charCodeAt(end - 1) << 24), 0x9e3779b1) >>> 26);
+    const recent = this.recent;
+    const first = recent[slot];
+    if (first.length === n && rangeEquals(text, start, end, first, false)) return first;
+    const second = recent[slot + 1];
+    if (second.length === n && rangeEquals(text, start, end, second, false)) {
+      recent[slot + 1] = first;
+      recent[slot] = second;
+      return second;
+    }
     const name = this.lookup(text, start, end);
-    this.recent[slot] = name;
+    recent[slot + 1] = first;
+    recent[slot] = name;
     return name;
   }
 
