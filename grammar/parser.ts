@@ -113,23 +113,26 @@ class NetlistParser extends EmbeddedActionsParser {
     this.performSelfAnalysis();
   }
 
+  // The bodies of OPTION and MANY2 are made once, not per line.
+  private readonly directiveBody = () => this.CONSUME(Directive);
+  private readonly itemBody = () =>
+    this.OR(
+      (this.itemAlts ??= [
+        { ALT: () => { const t = this.CONSUME(Fields); this.sink?.fields(t); } },
+        { ALT: () => { const t = this.CONSUME(Brace); this.sink?.item(Kind.Brace, t); } },
+        { ALT: () => { const t = this.CONSUME(Quoted); this.sink?.item(Kind.Quoted, t); } },
+        { ALT: () => { const t = this.CONSUME(DollarModel); this.sink?.item(Kind.DollarModel, t); } },
+        { ALT: () => { const t = this.CONSUME(LParen); this.sink?.item(Kind.Open, t); } },
+        { ALT: () => { const t = this.CONSUME(RParen); this.sink?.item(Kind.Close, t); } },
+        { ALT: () => { const t = this.CONSUME(Unclosed); this.sink?.item(Kind.Unclosed, t); } },
+        { ALT: () => { const t = this.CONSUME(Stray); this.sink?.item(Kind.Stray, t); } },
+      ]),
+    );
+
   netlist = this.RULE('netlist', () => {
     this.MANY(() => {
-      const directive = this.OPTION(() => this.CONSUME(Directive));
-      this.MANY2(() =>
-        this.OR(
-          (this.itemAlts ??= [
-            { ALT: () => { const t = this.CONSUME(Fields); this.sink?.fields(t); } },
-            { ALT: () => { const t = this.CONSUME(Brace); this.sink?.item(Kind.Brace, t); } },
-            { ALT: () => { const t = this.CONSUME(Quoted); this.sink?.item(Kind.Quoted, t); } },
-            { ALT: () => { const t = this.CONSUME(DollarModel); this.sink?.item(Kind.DollarModel, t); } },
-            { ALT: () => { const t = this.CONSUME(LParen); this.sink?.item(Kind.Open, t); } },
-            { ALT: () => { const t = this.CONSUME(RParen); this.sink?.item(Kind.Close, t); } },
-            { ALT: () => { const t = this.CONSUME(Unclosed); this.sink?.item(Kind.Unclosed, t); } },
-            { ALT: () => { const t = this.CONSUME(Stray); this.sink?.item(Kind.Stray, t); } },
-          ]),
-        ),
-      );
+      const directive = this.OPTION(this.directiveBody);
+      this.MANY2(this.itemBody);
       this.OR2(
         (this.endAlts ??= [
           { ALT: () => { this.CONSUME(Newline); } },
