@@ -76,10 +76,13 @@ export class MosTable {
   values = new Float64Array(256 * 4);
   readonly names: string[] = [];
   readonly models: string[] = [];
-  /** Rows whose w, l, m or nf is an expression: the four values, numbers included. */
-  readonly expressions = new Map<number, (Value | undefined)[]>();
-  /** Rows with other parameters. */
-  readonly extras = new Map<number, Param[]>();
+  /** For rows whose w, l, m or nf is an expression: the four values, numbers included. */
+  private readonly expressionList: (Value | undefined)[][] = [];
+  /** For rows with other parameters: those parameters. */
+  private readonly extraList: Param[][] = [];
+  /** Per row, 1 + index into `expressionList` / `extraList`, 0 for none (a typed array: a Map keyed by a million rows costs a cache miss per read). */
+  private expressionAt = new Int32Array(256);
+  private extraAt = new Int32Array(256);
   private readonly cursor: LocationCursor;
 
   constructor(file: string, lineStarts: readonly number[]) {
@@ -103,8 +106,10 @@ export class MosTable {
     values[at + L] = typeof l === 'number' ? l : NaN;
     values[at + M] = typeof m === 'number' ? m : NaN;
     values[at + NF] = typeof nf === 'number' ? nf : NaN;
-    if (typeof w === 'object' || typeof l === 'object' || typeof m === 'object' || typeof nf === 'object') this.expressions.set(r, [w, l, m, nf]);
-    if (extra) this.extras.set(r, extra);
+    if (typeof w === 'object' || typeof l === 'object' || typeof m === 'object' || typeof nf === 'object') this.expressionAt[r] = this.expressionList.push([w, l, m, nf]);
+    else this.expressionAt[r] = 0;
+    if (extra) this.extraAt[r] = this.extraList.push(extra);
+    else this.extraAt[r] = 0;
     return r;
   }
 
@@ -112,7 +117,14 @@ export class MosTable {
   value(r: number, k: number): Value | undefined {
     const v = this.values[4 * r + k];
     if (v === v) return v;
-    return this.expressions.get(r)?.[k];
+    const e = this.expressionAt[r];
+    return e === 0 ? undefined : this.expressionList[e - 1][k];
+  }
+
+  /** Parameters of row `r` other than w, l, m and nf. */
+  extra(r: number): Param[] | undefined {
+    const e = this.extraAt[r];
+    return e === 0 ? undefined : this.extraList[e - 1];
   }
 
   loc(r: number): SourceLoc {
@@ -132,6 +144,8 @@ export class MosTable {
     this.bulk = grow32(this.bulk);
     this.offset = grow32(this.offset);
     this.modelOffset = grow32(this.modelOffset);
+    this.expressionAt = grow32(this.expressionAt);
+    this.extraAt = grow32(this.extraAt);
     const values = new Float64Array(n * 4);
     values.set(this.values);
     this.values = values;
@@ -180,7 +194,7 @@ export class MosRow implements MosStatement {
     return this.table.value(this.row, NF);
   }
   get extra(): Param[] | undefined {
-    return this.table.extras.get(this.row);
+    return this.table.extra(this.row);
   }
   /** A new location object on every read. */
   get loc(): SourceLoc {

@@ -99,8 +99,8 @@ interface CellDef {
   /** The definition's own node table (ports first); the first entry file's for the top level. */
   ownNets: NameTable | null;
   pinInfo: PinInfoEntry[];
-  /** Static resolution of each X line of the body. */
-  targets: Map<InstanceStatement, CellDef | DeviceKind | 'tie' | 'unknown' | 'cut'>;
+  /** Static resolution of each X line of the body, by index in `elements` (undefined for other elements). */
+  targets: (Target | undefined)[];
   /** Header parameters the body reads (only they distinguish variants). */
   relevant: string[] | null;
   variants: Map<string, Cell>;
@@ -108,6 +108,8 @@ interface CellDef {
 }
 
 type Binding = Map<string, number | undefined>;
+
+type Target = CellDef | DeviceKind | 'tie' | 'unknown' | 'cut';
 
 /** Parameter lookup: a value, undefined for an unknown name, null for a declared parameter without a value. */
 type Lookup = (name: string) => number | undefined | null;
@@ -266,7 +268,7 @@ class Elaborator {
       segments: [],
       ownNets: stmt ? stmt.nets : null,
       pinInfo: [],
-      targets: new Map(),
+      targets: [],
       relevant: null,
       variants: new Map(),
       defaultBinding: null,
@@ -543,16 +545,18 @@ class Elaborator {
   private resolveTargets(): void {
     for (const def of this.allDefs) {
       const scope = def === this.top ? this.global : def.scope;
-      for (const el of def.elements) {
+      const targets = (def.targets = new Array<Target | undefined>(def.elements.length).fill(undefined));
+      for (let e = 0; e < def.elements.length; e++) {
+        const el = def.elements[e];
         if (el.kind !== 'instance') continue;
         const target = this.lookupDef(scope, el.cell);
-        if (target) def.targets.set(el, target);
-        else if (el.cell.toLowerCase() === TIE_DEVICE) def.targets.set(el, 'tie');
+        if (target) targets[e] = target;
+        else if (el.cell.toLowerCase() === TIE_DEVICE) targets[e] = 'tie';
         else {
           const kind = this.deviceKind(el.cell);
-          if (kind) def.targets.set(el, kind);
+          if (kind) targets[e] = kind;
           else {
-            def.targets.set(el, 'unknown');
+            targets[e] = 'unknown';
             this.report('error', 'unknown-subckt', el.loc.file, el.cellOffset, `${el.name}: unknown subcircuit "${el.cell}"`, 'define it, include the file that defines it, or map the name to a device kind in the deck\u2019s device map');
           }
         }
@@ -565,11 +569,13 @@ class Elaborator {
     const state = new Map<CellDef, 1 | 2>();
     for (const start of this.allDefs) {
       if (state.has(start)) continue;
-      const stack: { def: CellDef; edges: [InstanceStatement, CellDef][]; i: number }[] = [];
+      const stack: { def: CellDef; edges: [number, CellDef][]; i: number }[] = [];
       const push = (def: CellDef) => {
         state.set(def, 1);
-        const edges: [InstanceStatement, CellDef][] = [];
-        for (const [inst, t] of def.targets) if (typeof t === 'object') edges.push([inst, t]);
+        const edges: [number, CellDef][] = [];
+        def.targets.forEach((t, e) => {
+          if (typeof t === 'object') edges.push([e, t]);
+        });
         stack.push({ def, edges, i: 0 });
       };
       push(start);
@@ -580,11 +586,12 @@ class Elaborator {
           stack.pop();
           continue;
         }
-        const [inst, child] = frame.edges[frame.i++];
+        const [e, child] = frame.edges[frame.i++];
+        const inst = frame.def.elements[e] as InstanceStatement;
         const s = state.get(child);
         if (s === 1) {
           const chain = stack.slice(stack.findIndex((f) => f.def === child)).map((f) => f.def.name);
-          frame.def.targets.set(inst, 'cut');
+          frame.def.targets[e] = 'cut';
           this.reportAt('error', 'recursive-instance', inst.loc, `${inst.name} instantiates ${child.name} inside itself (${[...chain, child.name].join(' → ')})`, 'a subcircuit cannot contain itself, directly or through others; this instance is left out');
         } else if (s === undefined) push(child);
       }
@@ -600,7 +607,7 @@ class Elaborator {
       this.reportAt('error', 'unknown-top', { file: first, line: 1, column: 1 }, `no subcircuit named "${this.options.top}" to start from`, 'give the name of a .subckt defined in the files');
     }
     const instantiated = new Set<CellDef>();
-    for (const def of this.allDefs) for (const t of def.targets.values()) if (typeof t === 'object') instantiated.add(t);
+    for (const def of this.allDefs) for (const t of def.targets) if (typeof t === 'object') instantiated.add(t);
     const roots = this.allDefs.filter((d) => d !== this.top && !instantiated.has(d));
     if (this.top.elements.length) roots.unshift(this.top);
     return roots;
@@ -793,7 +800,7 @@ class Elaborator {
             break;
           }
           case 'instance': {
-            const target = def.targets.get(el);
+            const target = def.targets[e];
             if (target === undefined || target === 'unknown' || target === 'cut') break;
             if (typeof target === 'object') {
               if (el.nodes.length !== target.ports.length) {
@@ -937,7 +944,7 @@ class Elaborator {
     }
     let params = EMPTY_PARAMS;
     let mult: number | undefined;
-    const extra = t.extras.size ? t.extras.get(r) : undefined;
+    const extra = t.extra(r);
     if (extra) {
       params = {};
       for (const p of extra) {

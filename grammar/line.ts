@@ -28,10 +28,12 @@ export class Line {
   private readonly kinds: Kind[] = [];
   private readonly escapes: boolean[] = [];
   private readonly equals: number[] = [];
-  private readonly words: (string | undefined)[] = [];
+  private readonly words: string[] = [];
+  /** The line number (`stamp`) each entry of `words` was cut for: a stale entry is never read, so nothing is emptied per line. */
+  private wordStamps = new Int32Array(64);
+  private stamp = 1;
   /** Whether the arrays above hold items (a line with anything but a single Fields token). */
   private listed = false;
-  private cutWords = false;
 
   clear(text: string, base: number): void {
     this.text = text;
@@ -47,9 +49,9 @@ export class Line {
       this.equals.length = 0;
       this.listed = false;
     }
-    if (this.cutWords) {
-      this.words.length = 0;
-      this.cutWords = false;
+    if (++this.stamp === 0x40000000) {
+      this.wordStamps.fill(0);
+      this.stamp = 1;
     }
   }
 
@@ -134,13 +136,16 @@ export class Line {
 
   /** The item's text: a field with escapes resolved, or an expression's content. */
   word(i: number): string {
-    let w = this.words[i];
-    if (w === undefined) {
-      w = this.text.substring(this.start(i), this.end(i));
-      if (this.escaped(i)) w = unescapeField(w);
-      this.words[i] = w;
-      this.cutWords = true;
+    if (i >= this.wordStamps.length) {
+      const grown = new Int32Array(Math.max(2 * this.wordStamps.length, i + 1));
+      grown.set(this.wordStamps);
+      this.wordStamps = grown;
     }
+    if (this.wordStamps[i] === this.stamp) return this.words[i];
+    let w = this.text.substring(this.start(i), this.end(i));
+    if (this.escaped(i)) w = unescapeField(w);
+    this.words[i] = w;
+    this.wordStamps[i] = this.stamp;
     return w;
   }
 

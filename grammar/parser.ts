@@ -43,7 +43,7 @@ import {
 import { looksNumeric, NumberCache } from './numbers';
 import { Kind, Line } from './line';
 import { NameTable } from './names';
-import { hashRange, RangeIndex } from './text-hash';
+import { hashRange, RangeIndex, rangeEquals } from './text-hash';
 import { LocationCursor, lineStarts } from './source';
 
 /** SPICE element letters Keepwell does not read, and what they are. */
@@ -106,27 +106,33 @@ class NetlistParser extends EmbeddedActionsParser {
   private endAlts?: { ALT: () => void }[];
 
   constructor() {
-    super(netlistTokens, { recoveryEnabled: true });
+    // No error recovery: the grammar accepts every token sequence that ends with a line end
+    // (parseText appends one), so there is never anything to recover from, and with recovery
+    // on Chevrotain prepares a recovery attempt after every line's item loop.
+    super(netlistTokens, { recoveryEnabled: false });
     this.performSelfAnalysis();
   }
 
+  // The bodies of OPTION and MANY2 are made once, not per line.
+  private readonly directiveBody = () => this.CONSUME(Directive);
+  private readonly itemBody = () =>
+    this.OR(
+      (this.itemAlts ??= [
+        { ALT: () => { const t = this.CONSUME(Fields); this.sink?.fields(t); } },
+        { ALT: () => { const t = this.CONSUME(Brace); this.sink?.item(Kind.Brace, t); } },
+        { ALT: () => { const t = this.CONSUME(Quoted); this.sink?.item(Kind.Quoted, t); } },
+        { ALT: () => { const t = this.CONSUME(DollarModel); this.sink?.item(Kind.DollarModel, t); } },
+        { ALT: () => { const t = this.CONSUME(LParen); this.sink?.item(Kind.Open, t); } },
+        { ALT: () => { const t = this.CONSUME(RParen); this.sink?.item(Kind.Close, t); } },
+        { ALT: () => { const t = this.CONSUME(Unclosed); this.sink?.item(Kind.Unclosed, t); } },
+        { ALT: () => { const t = this.CONSUME(Stray); this.sink?.item(Kind.Stray, t); } },
+      ]),
+    );
+
   netlist = this.RULE('netlist', () => {
     this.MANY(() => {
-      const directive = this.OPTION(() => this.CONSUME(Directive));
-      this.MANY2(() =>
-        this.OR(
-          (this.itemAlts ??= [
-            { ALT: () => { const t = this.CONSUME(Fields); this.sink?.fields(t); } },
-            { ALT: () => { const t = this.CONSUME(Brace); this.sink?.item(Kind.Brace, t); } },
-            { ALT: () => { const t = this.CONSUME(Quoted); this.sink?.item(Kind.Quoted, t); } },
-            { ALT: () => { const t = this.CONSUME(DollarModel); this.sink?.item(Kind.DollarModel, t); } },
-            { ALT: () => { const t = this.CONSUME(LParen); this.sink?.item(Kind.Open, t); } },
-            { ALT: () => { const t = this.CONSUME(RParen); this.sink?.item(Kind.Close, t); } },
-            { ALT: () => { const t = this.CONSUME(Unclosed); this.sink?.item(Kind.Unclosed, t); } },
-            { ALT: () => { const t = this.CONSUME(Stray); this.sink?.item(Kind.Stray, t); } },
-          ]),
-        ),
-      );
+      const directive = this.OPTION(this.directiveBody);
+      this.MANY2(this.itemBody);
       this.OR2(
         (this.endAlts ??= [
           { ALT: () => { this.CONSUME(Newline); } },
@@ -990,8 +996,32 @@ class FileBuilder {
 class Interner {
   private readonly names: string[] = [];
   private readonly index = new RangeIndex((e) => this.names[e], false, 256);
+  /**
+   * The last two names returned for each slot of (length, first, middle and last character):
+   * lines repeat a handful of models (`nch`, `pch`, `hv_nfet_01`, `hv_pfet_01`, …), so most
+   * lookups end here after comparing a few characters, before any hashing.
+   */
+  private readonly recent: string[] = new Array<string>(128).fill('');
 
   intern(text: string, start: number, end: number): string {
+    const n = end - start;
+    const slot = n === 0 ? 0 : 2 * (Math.imul(n ^ (text.charCodeAt(start) << 8) ^ (text.charCodeAt(start + (n >> 1)) << 16) ^ (text.charCodeAt(end - 1) << 24), 0x9e3779b1) >>> 26);
+    const recent = this.recent;
+    const first = recent[slot];
+    if (first.length === n && rangeEquals(text, start, end, first, false)) return first;
+    const second = recent[slot + 1];
+    if (second.length === n && rangeEquals(text, start, end, second, false)) {
+      recent[slot + 1] = first;
+      recent[slot] = second;
+      return second;
+    }
+    const name = this.lookup(text, start, end);
+    recent[slot + 1] = first;
+    recent[slot] = name;
+    return name;
+  }
+
+  private lookup(text: string, start: number, end: number): string {
     const h = hashRange(text, start, end, false);
     const e = this.index.find(text, start, end, h);
     if (e >= 0) return this.names[e];
