@@ -385,7 +385,7 @@ class SignatureEncoder {
     const { cell, alias } = env;
     this.push(KIND_CODES[stage.kind]);
     this.push(stage.elements.length);
-    const active = inNetworks(stage);
+    const active = this.activeElements(stage);
     for (let i = 0; i < stage.elements.length; i++) {
       const el = stage.elements[i];
       if (!active[i]) this.push(TAG_INACTIVE);
@@ -406,6 +406,19 @@ class SignatureEncoder {
     }
     this.shape(stage.pullUp);
     this.shape(stage.pullDown);
+  }
+
+  private active = new Uint8Array(64);
+
+  /** `inNetworks(stage)` in a buffer the encoder keeps. */
+  private activeElements(stage: Stage): Uint8Array {
+    const k = stage.elements.length;
+    if (k > this.active.length) this.active = new Uint8Array(2 * k);
+    const mask = this.active;
+    mask.fill(0, 0, k);
+    if (stage.pullUp) markElements(stage.pullUp, mask);
+    if (stage.pullDown) markElements(stage.pullDown, mask);
+    return mask;
   }
 
   /** FNV-1a over the 32-bit halves of the encoded numbers. */

@@ -28,40 +28,51 @@ export class StageLogic {
   readonly polarity: ('n' | 'p' | 'r')[];
 
   constructor(stage: Stage, cell: Cell, railOf: (net: number) => RailKind | undefined, alias?: Int32Array) {
+    this.state = [];
+    this.bit = [];
+    this.nChannel = [];
+    this.tiedToRail = [];
+    this.gate = [];
+    this.polarity = [];
+    this.load(stage, cell, railOf, alias);
+  }
+
+  /** Fills the tables for `stage`; classification reuses one instance for every stage of a cell. */
+  load(stage: Stage, cell: Cell, railOf: (net: number) => RailKind | undefined, alias?: Int32Array): this {
     const k = stage.elements.length;
-    this.state = new Array<number>(k).fill(ALWAYS);
-    this.bit = new Array<number>(k).fill(0);
-    this.nChannel = new Array<number>(k).fill(0);
-    this.tiedToRail = new Array<number>(k).fill(0);
-    this.gate = new Array<number>(k).fill(-1);
-    this.polarity = new Array<'n' | 'p' | 'r'>(k).fill('r');
+    const { state, bit, nChannel, tiedToRail, gate, polarity } = this;
+    state.length = bit.length = nChannel.length = tiedToRail.length = gate.length = polarity.length = k;
     for (let i = 0; i < k; i++) {
       const el = stage.elements[i];
+      bit[i] = 0;
+      nChannel[i] = 0;
+      tiedToRail[i] = 0;
       if (el.kind === 'res') {
-        this.state[i] = ALWAYS;
-        this.gate[i] = -1;
-        this.polarity[i] = 'r';
+        state[i] = ALWAYS;
+        gate[i] = -1;
+        polarity[i] = 'r';
         continue;
       }
       const m = cell.mosfets[el.index];
       const g = alias ? alias[m.gate] : m.gate;
-      this.gate[i] = g;
-      this.polarity[i] = m.polarity;
-      this.nChannel[i] = m.polarity === 'n' ? 1 : 0;
+      gate[i] = g;
+      polarity[i] = m.polarity;
+      nChannel[i] = m.polarity === 'n' ? 1 : 0;
       const r = railOf(g);
       if (r) {
-        this.state[i] = (r === 'power') === (m.polarity === 'n') ? ALWAYS : NEVER;
-        this.tiedToRail[i] = 1;
+        state[i] = (r === 'power') === (m.polarity === 'n') ? ALWAYS : NEVER;
+        tiedToRail[i] = 1;
         continue;
       }
       const b = stage.inputs.indexOf(g);
       // A gate inside the stage (diode connection, feedback from the output) is taken as conducting.
-      if (b < 0) this.state[i] = ALWAYS;
+      if (b < 0) state[i] = ALWAYS;
       else {
-        this.state[i] = INPUT;
-        this.bit[i] = b;
+        state[i] = INPUT;
+        bit[i] = b;
       }
     }
+    return this;
   }
 
   on(element: number, mask: number): boolean {
@@ -143,6 +154,16 @@ function allOf(logic: StageLogic, elements: readonly number[], polarity: 'n' | '
   return true;
 }
 
+/** Gate tables and element lists that classification fills for each stage and never keeps (a flat netlist has hundreds of thousands of stages). */
+interface ClassifyScratch {
+  logic: StageLogic;
+  up: number[];
+  down: number[];
+}
+
+/** Free for the next classification; taken (null) while one runs, so that a nested call makes its own. */
+let idleScratch: ClassifyScratch | null = null;
+
 export function classifyStage(
   stage: Stage,
   cell: Cell,
@@ -157,9 +178,24 @@ export function classifyStage(
     else stage.notes.push(pullUp ? 'drives only towards the supply' : 'drives only towards ground');
     return;
   }
-  const logic = new StageLogic(stage, cell, railOf, alias);
-  const up = networkElements(pullUp);
-  const down = networkElements(pullDown);
+  const scratch = idleScratch ?? { logic: new StageLogic(stage, cell, railOf, alias), up: [], down: [] };
+  idleScratch = null;
+  scratch.logic.load(stage, cell, railOf, alias);
+  scratch.up.length = 0;
+  scratch.down.length = 0;
+  classifyNetworks(stage, pullUp, pullDown, scratch.logic, networkElements(pullUp, scratch.up), networkElements(pullDown, scratch.down), isClock);
+  idleScratch = scratch;
+}
+
+function classifyNetworks(
+  stage: Stage,
+  pullUp: Network,
+  pullDown: Network,
+  logic: StageLogic,
+  up: readonly number[],
+  down: readonly number[],
+  isClock: (net: number) => boolean,
+): void {
   const k = stage.inputs.length;
   const exhaustive = k <= MAX_TRUTH_TABLE_INPUTS;
 
