@@ -507,12 +507,17 @@ function inAnchorOrder(stages: Stage[], rank?: (file: string) => number): Stage[
   const fileOf = new Int32Array(n);
   const line = new Float64Array(n);
   const column = new Float64Array(n);
+  let lastFile: string | null = null;
+  let f = -1;
   for (let i = 0; i < n; i++) {
     const a = stages[i].anchor;
-    let f = fileIds.get(a.file);
-    if (f === undefined) {
-      f = files.push(a.file) - 1;
-      fileIds.set(a.file, f);
+    if (a.file !== lastFile) {
+      lastFile = a.file;
+      const known = fileIds.get(a.file);
+      if (known === undefined) {
+        f = files.push(a.file) - 1;
+        fileIds.set(a.file, f);
+      } else f = known;
     }
     fileOf[i] = f;
     line[i] = a.line;
