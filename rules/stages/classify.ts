@@ -37,11 +37,14 @@ export class StageLogic {
     this.load(stage, cell, railOf, alias);
   }
 
-  /** Fills the tables for `stage`; classification reuses one instance for every stage of a cell. */
+  /**
+   * Fills the tables for `stage`, index by index from 0, so that a new instance's tables have one entry per element.
+   * Classification reloads one instance for every stage and never hands it out: its tables keep the length of the
+   * largest stage so far (setting an array's length costs more than the stage's work).
+   */
   load(stage: Stage, cell: Cell, railOf: (net: number) => RailKind | undefined, alias?: Int32Array): this {
     const k = stage.elements.length;
     const { state, bit, nChannel, tiedToRail, gate, polarity } = this;
-    state.length = bit.length = nChannel.length = tiedToRail.length = gate.length = polarity.length = k;
     for (let i = 0; i < k; i++) {
       const el = stage.elements[i];
       bit[i] = 0;
@@ -154,15 +157,8 @@ function allOf(logic: StageLogic, elements: readonly number[], polarity: 'n' | '
   return true;
 }
 
-/** Gate tables and element lists that classification fills for each stage and never keeps (a flat netlist has hundreds of thousands of stages). */
-interface ClassifyScratch {
-  logic: StageLogic;
-  up: number[];
-  down: number[];
-}
-
-/** Free for the next classification; taken (null) while one runs, so that a nested call makes its own. */
-let idleScratch: ClassifyScratch | null = null;
+/** The gate tables classification fills for each stage and never keeps (a flat netlist has hundreds of thousands of stages); null while in use, so that a nested call makes its own. */
+let idleLogic: StageLogic | null = null;
 
 export function classifyStage(
   stage: Stage,
@@ -178,13 +174,10 @@ export function classifyStage(
     else stage.notes.push(pullUp ? 'drives only towards the supply' : 'drives only towards ground');
     return;
   }
-  const scratch = idleScratch ?? { logic: new StageLogic(stage, cell, railOf, alias), up: [], down: [] };
-  idleScratch = null;
-  scratch.logic.load(stage, cell, railOf, alias);
-  scratch.up.length = 0;
-  scratch.down.length = 0;
-  classifyNetworks(stage, pullUp, pullDown, scratch.logic, networkElements(pullUp, scratch.up), networkElements(pullDown, scratch.down), isClock);
-  idleScratch = scratch;
+  const logic = idleLogic ? idleLogic.load(stage, cell, railOf, alias) : new StageLogic(stage, cell, railOf, alias);
+  idleLogic = null;
+  classifyNetworks(stage, pullUp, pullDown, logic, networkElements(pullUp), networkElements(pullDown), isClock);
+  idleLogic = logic;
 }
 
 function classifyNetworks(

@@ -246,21 +246,20 @@ export function extractStages(cell: Cell, rails: readonly (RailKind | undefined)
   const driven: number[] = [];
   const passGroups = new Map<string, BlockInfo[]>();
   const loose: BlockInfo[] = [];
-  const seen: number[] = [];
   for (const r of roots) {
-    // Observed nets of the block in order of first touch, and its rail contacts.
-    seen.length = 0;
+    // The block's observed net when it has exactly one (−1 for none, −2 for several), and its rail contacts.
+    let only = -1;
     let railMask = 0;
     for (let e = blockHead[r]; e >= 0; e = blockNext[e]) {
       for (let side = 0; side < 2; side++) {
         const x = side === 0 ? edgeA[e] : edgeB[e];
         const c = railCode[x];
         if (c) railMask |= c;
-        else if (observed[x] && (seen.length === 0 || (seen[0] !== x && (seen.length === 1 || seen.indexOf(x) < 0)))) seen.push(x);
+        else if (observed[x] && only !== x) only = only === -1 ? x : -2;
       }
     }
-    if (seen.length === 1) {
-      const o = seen[0];
+    if (only >= 0) {
+      const o = only;
       blockRails[r] = railMask;
       if (groupFirst[o] < 0) {
         groupFirst[o] = r;
