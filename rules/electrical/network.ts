@@ -103,6 +103,29 @@ function isSimple(n: Network): boolean {
   return true;
 }
 
+/**
+ * Work arrays of the stack Newton solve, shared by every evaluator: a solve never nests another (a stack it solves holds
+ * single elements only) and evaluators run one at a time, and a transfer analysis makes two evaluators, so arrays of
+ * their own cost more to allocate than the solves they serve.
+ */
+interface StackWork {
+  x: Float64Array;
+  cur: Float64Array;
+  dA: Float64Array;
+  dB: Float64Array;
+  diag: Float64Array;
+  upper: Float64Array;
+  lower: Float64Array;
+  rhs: Float64Array;
+}
+
+function newStackWork(n: number): StackWork {
+  const f = () => new Float64Array(n);
+  return { x: f(), cur: f(), dA: f(), dB: f(), diag: f(), upper: f(), lower: f(), rhs: f() };
+}
+
+let stackWork = newStackWork(64);
+
 /** Per series network: solver closures made once (making closures on every call is costly), and warm-start state. */
 interface SeriesSolver {
   /** Two-element series: balance of the two currents as a function of the middle node. */
@@ -178,7 +201,7 @@ export class NetworkEvaluator {
       const old = v[n.nodes[j]];
       x[j] = old > lo && old < hi ? old : va + ((vb - va) * (j + 1)) / k;
     }
-    const { cur, dA, dB, diag, upper, lower, rhs } = this.work;
+    const { cur, dA, dB, diag, upper, lower, rhs } = stackWork;
     for (let iter = 0; iter < 40; iter++) {
       for (let j = 0; j < m; j++) v[n.nodes[j]] = x[j];
       for (let j = 0; j < k; j++) {
@@ -249,24 +272,9 @@ export class NetworkEvaluator {
   /** Current of the stack `leafStack` last solved. */
   private stackCurrent = 0;
 
-  private readonly work = {
-    cur: new Float64Array(64),
-    dA: new Float64Array(64),
-    dB: new Float64Array(64),
-    diag: new Float64Array(64),
-    upper: new Float64Array(64),
-    lower: new Float64Array(64),
-    rhs: new Float64Array(64),
-  };
-  private scratchX = new Float64Array(64);
-
   private scratch(m: number): Float64Array {
-    if (m > 63) {
-      // Very long stacks: grow the work arrays once.
-      for (const key of Object.keys(this.work) as (keyof typeof this.work)[]) this.work[key] = new Float64Array(2 * m + 2);
-      this.scratchX = new Float64Array(2 * m + 2);
-    }
-    return this.scratchX;
+    if (m >= stackWork.x.length) stackWork = newStackWork(2 * m + 2); // very long stacks: grow the work arrays once
+    return stackWork.x;
   }
 
   private leafSlopes(index: number, a: number, b: number): void {

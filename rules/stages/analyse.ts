@@ -373,7 +373,9 @@ class SignatureEncoder {
   key = new Float64Array(256);
   length = 0;
   private words = new Int32Array(this.key.buffer);
-  private readonly local: number[] = [];
+  /** Internal nodes by first use: `local[0 … localCount − 1]` (a count, not an array length, which costs a call to reset). */
+  private local = new Int32Array(64);
+  private localCount = 0;
   private env!: StageEnvironment;
   private stage!: Stage;
 
@@ -381,11 +383,11 @@ class SignatureEncoder {
     this.env = env;
     this.stage = stage;
     this.length = 0;
-    this.local.length = 0;
+    this.localCount = 0;
     const { cell, alias } = env;
     this.push(KIND_CODES[stage.kind]);
     this.push(stage.elements.length);
-    const active = inNetworks(stage);
+    const active = this.activeElements(stage);
     for (let i = 0; i < stage.elements.length; i++) {
       const el = stage.elements[i];
       if (!active[i]) this.push(TAG_INACTIVE);
@@ -406,6 +408,19 @@ class SignatureEncoder {
     }
     this.shape(stage.pullUp);
     this.shape(stage.pullDown);
+  }
+
+  private active = new Uint8Array(64);
+
+  /** `inNetworks(stage)` in a buffer the encoder keeps. */
+  private activeElements(stage: Stage): Uint8Array {
+    const k = stage.elements.length;
+    if (k > this.active.length) this.active = new Uint8Array(2 * k);
+    const mask = this.active;
+    mask.fill(0, 0, k);
+    if (stage.pullUp) markElements(stage.pullUp, mask);
+    if (stage.pullDown) markElements(stage.pullDown, mask);
+    return mask;
   }
 
   /** FNV-1a over the 32-bit halves of the encoded numbers. */
@@ -442,9 +457,14 @@ class SignatureEncoder {
     if (net === this.stage.output) return ROLE_OUTPUT;
     const i = this.stage.inputs.indexOf(net);
     if (i >= 0) return ROLE_INPUT - i;
-    let x = this.local.indexOf(net);
-    if (x < 0) x = this.local.push(net) - 1;
-    return x;
+    const local = this.local;
+    for (let x = 0; x < this.localCount; x++) if (local[x] === net) return x;
+    if (this.localCount === local.length) {
+      this.local = new Int32Array(2 * local.length);
+      this.local.set(local);
+    }
+    this.local[this.localCount] = net;
+    return this.localCount++;
   }
 
   private shape(n: Network | null): void {
@@ -620,7 +640,9 @@ function cornerViews(cachedCorners: CachedStage['inputs'][number]['corners'], ne
 }
 
 export function analyseStage(env: StageEnvironment, stage: Stage): StageAnalysis {
-  if (!STATIC_KINDS.has(stage.kind)) {
+  const kind = stage.kind;
+  // STATIC_KINDS, compared directly: this runs once per stage of a flat netlist.
+  if (kind !== 'inverter' && kind !== 'complementary' && kind !== 'ratioed' && kind !== 'clocked') {
     const why = stage.notes.length ? ` (${stage.notes.join('; ')})` : '';
     return new StageAnalysisView(stage, null, `${stage.kind} stage: no static transfer curve${why}`);
   }

@@ -28,40 +28,54 @@ export class StageLogic {
   readonly polarity: ('n' | 'p' | 'r')[];
 
   constructor(stage: Stage, cell: Cell, railOf: (net: number) => RailKind | undefined, alias?: Int32Array) {
+    this.state = [];
+    this.bit = [];
+    this.nChannel = [];
+    this.tiedToRail = [];
+    this.gate = [];
+    this.polarity = [];
+    this.load(stage, cell, railOf, alias);
+  }
+
+  /**
+   * Fills the tables for `stage`, index by index from 0, so that a new instance's tables have one entry per element.
+   * Classification reloads one instance for every stage and never hands it out: its tables keep the length of the
+   * largest stage so far (setting an array's length costs more than the stage's work).
+   */
+  load(stage: Stage, cell: Cell, railOf: (net: number) => RailKind | undefined, alias?: Int32Array): this {
     const k = stage.elements.length;
-    this.state = new Array<number>(k).fill(ALWAYS);
-    this.bit = new Array<number>(k).fill(0);
-    this.nChannel = new Array<number>(k).fill(0);
-    this.tiedToRail = new Array<number>(k).fill(0);
-    this.gate = new Array<number>(k).fill(-1);
-    this.polarity = new Array<'n' | 'p' | 'r'>(k).fill('r');
+    const { state, bit, nChannel, tiedToRail, gate, polarity } = this;
     for (let i = 0; i < k; i++) {
       const el = stage.elements[i];
+      bit[i] = 0;
+      nChannel[i] = 0;
+      tiedToRail[i] = 0;
       if (el.kind === 'res') {
-        this.state[i] = ALWAYS;
-        this.gate[i] = -1;
-        this.polarity[i] = 'r';
+        state[i] = ALWAYS;
+        gate[i] = -1;
+        polarity[i] = 'r';
         continue;
       }
       const m = cell.mosfets[el.index];
       const g = alias ? alias[m.gate] : m.gate;
-      this.gate[i] = g;
-      this.polarity[i] = m.polarity;
-      this.nChannel[i] = m.polarity === 'n' ? 1 : 0;
+      gate[i] = g;
+      polarity[i] = m.polarity;
+      nChannel[i] = m.polarity === 'n' ? 1 : 0;
       const r = railOf(g);
       if (r) {
-        this.state[i] = (r === 'power') === (m.polarity === 'n') ? ALWAYS : NEVER;
-        this.tiedToRail[i] = 1;
+        state[i] = (r === 'power') === (m.polarity === 'n') ? ALWAYS : NEVER;
+        tiedToRail[i] = 1;
         continue;
       }
       const b = stage.inputs.indexOf(g);
       // A gate inside the stage (diode connection, feedback from the output) is taken as conducting.
-      if (b < 0) this.state[i] = ALWAYS;
+      if (b < 0) state[i] = ALWAYS;
       else {
-        this.state[i] = INPUT;
-        this.bit[i] = b;
+        state[i] = INPUT;
+        bit[i] = b;
       }
     }
+    return this;
   }
 
   on(element: number, mask: number): boolean {
@@ -143,6 +157,9 @@ function allOf(logic: StageLogic, elements: readonly number[], polarity: 'n' | '
   return true;
 }
 
+/** The gate tables classification fills for each stage and never keeps (a flat netlist has hundreds of thousands of stages); null while in use, so that a nested call makes its own. */
+let idleLogic: StageLogic | null = null;
+
 export function classifyStage(
   stage: Stage,
   cell: Cell,
@@ -157,9 +174,21 @@ export function classifyStage(
     else stage.notes.push(pullUp ? 'drives only towards the supply' : 'drives only towards ground');
     return;
   }
-  const logic = new StageLogic(stage, cell, railOf, alias);
-  const up = networkElements(pullUp);
-  const down = networkElements(pullDown);
+  const logic = idleLogic ? idleLogic.load(stage, cell, railOf, alias) : new StageLogic(stage, cell, railOf, alias);
+  idleLogic = null;
+  classifyNetworks(stage, pullUp, pullDown, logic, networkElements(pullUp), networkElements(pullDown), isClock);
+  idleLogic = logic;
+}
+
+function classifyNetworks(
+  stage: Stage,
+  pullUp: Network,
+  pullDown: Network,
+  logic: StageLogic,
+  up: readonly number[],
+  down: readonly number[],
+  isClock: (net: number) => boolean,
+): void {
   const k = stage.inputs.length;
   const exhaustive = k <= MAX_TRUTH_TABLE_INPUTS;
 

@@ -237,10 +237,37 @@ export function extractStages(cell: Cell, rails: readonly (RailKind | undefined)
     return best;
   };
 
-  const driverBlocks = new Map<number, BlockInfo[]>();
+  // Blocks are grouped without an object per block: a block driving one observed net joins that net's chain of blocks
+  // (by root edge), with its rail contacts as a bit mask; only pass and loose blocks, a few in a flat netlist, keep lists.
+  const groupFirst = new Int32Array(netCount).fill(-1);
+  const groupLast = new Int32Array(netCount).fill(-1);
+  const nextInGroup = new Int32Array(edgeCount).fill(-1);
+  const blockRails = new Uint8Array(edgeCount);
+  const driven: number[] = [];
   const passGroups = new Map<string, BlockInfo[]>();
   const loose: BlockInfo[] = [];
   for (const r of roots) {
+    // The block's observed net when it has exactly one (−1 for none, −2 for several), and its rail contacts.
+    let only = -1;
+    let railMask = 0;
+    for (let e = blockHead[r]; e >= 0; e = blockNext[e]) {
+      for (let side = 0; side < 2; side++) {
+        const x = side === 0 ? edgeA[e] : edgeB[e];
+        const c = railCode[x];
+        if (c) railMask |= c;
+        else if (observed[x] && only !== x) only = only === -1 ? x : -2;
+      }
+    }
+    if (only >= 0) {
+      const o = only;
+      blockRails[r] = railMask;
+      if (groupFirst[o] < 0) {
+        groupFirst[o] = r;
+        driven.push(o);
+      } else nextInGroup[groupLast[o]] = r;
+      groupLast[o] = r;
+      continue;
+    }
     const list: number[] = [];
     for (let e = blockHead[r]; e >= 0; e = blockNext[e]) list.push(e);
     let info = describe(list);
@@ -253,9 +280,12 @@ export function extractStages(cell: Cell, rails: readonly (RailKind | undefined)
     }
     if (info.observed.length === 1) {
       const o = info.observed[0];
-      const g = driverBlocks.get(o);
-      if (g) g.push(info);
-      else driverBlocks.set(o, [info]);
+      blockRails[r] = (info.power ? RAIL_POWER : 0) | (info.ground ? RAIL_GROUND : 0);
+      if (groupFirst[o] < 0) {
+        groupFirst[o] = r;
+        driven.push(o);
+      } else nextInGroup[groupLast[o]] = r;
+      groupLast[o] = r;
     } else if (info.observed.length >= 2 && !info.power && !info.ground) {
       const key = sortAscending(info.observed).join(',');
       const g = passGroups.get(key);
@@ -276,7 +306,7 @@ export function extractStages(cell: Cell, rails: readonly (RailKind | undefined)
   // Each edge belongs to one stage: its position among that stage's elements, shared by every stage (no map per stage).
   const elementAt = new Int32Array(edgeCount);
   const makeStage = (edgeList: number[], kind: Stage['kind'], output: number | null, terminals: number[]): Stage => {
-    const sorted = edgeList.slice();
+    const sorted = edgeList; // every caller passes a list of its own
     // Transistors come in netlist order already; only mixed or multi-file stages need the full comparison.
     if (sorted.length > 1) {
       let plain = true;
@@ -360,38 +390,42 @@ export function extractStages(cell: Cell, rails: readonly (RailKind | undefined)
   };
 
   const isClock = options.isClock ?? never;
-  for (const [out, infos] of driverBlocks) {
+  for (let d = 0; d < driven.length; d++) {
+    const out = driven[d];
     const all: number[] = [];
-    for (const info of infos) for (const e of info.edges) all.push(e);
-    const notes: string[] = [];
+    for (let r = groupFirst[out]; r >= 0; r = nextInGroup[r]) for (let e = blockHead[r]; e >= 0; e = blockNext[e]) all.push(e);
+    let notes: string[] | null = null;
     const up: number[] = [];
     const down: number[] = [];
-    const auxiliary: { edge: number; node: number; rail: 'power' | 'ground' }[] = [];
+    let auxiliary: { edge: number; node: number; rail: 'power' | 'ground' }[] | null = null;
     let ok = true;
-    for (const info of infos) {
-      if (info.power && !info.ground) for (const e of info.edges) up.push(e);
-      else if (info.ground && !info.power) for (const e of info.edges) down.push(e);
-      else if (info.power && info.ground) {
+    for (let r = groupFirst[out]; r >= 0; r = nextInGroup[r]) {
+      const rails = blockRails[r];
+      if (rails === RAIL_POWER) for (let e = blockHead[r]; e >= 0; e = blockNext[e]) up.push(e);
+      else if (rails === RAIL_GROUND) for (let e = blockHead[r]; e >= 0; e = blockNext[e]) down.push(e);
+      else if (rails === (RAIL_POWER | RAIL_GROUND)) {
         // Joined through the output itself (an output found by `guessOutput`), or a secondary precharge on a stack node.
-        const plain = splitAt(info.edges, out);
-        const split = plain ? { up: plain.up, down: plain.down, auxiliary: [] } : splitMixed(info.edges, out);
+        const edges: number[] = [];
+        for (let e = blockHead[r]; e >= 0; e = blockNext[e]) edges.push(e);
+        const plain = splitAt(edges, out);
+        const split = plain ? { up: plain.up, down: plain.down, auxiliary: [] } : splitMixed(edges, out);
         if (!split) {
           ok = false;
-          notes.push('a path joins the rails without passing through the output');
+          (notes ??= []).push('a path joins the rails without passing through the output');
           continue;
         }
         for (const e of split.up) up.push(e);
         for (const e of split.down) down.push(e);
-        for (const x of split.auxiliary) auxiliary.push(x);
+        for (const x of split.auxiliary) (auxiliary ??= []).push(x);
       }
     }
     const stage = makeStage(all, 'other', out, [out]);
-    for (const n of notes) stage.notes.push(n);
-    for (const x of auxiliary) stage.auxiliary.push({ element: elementAt[x.edge], node: x.node, rail: x.rail } satisfies AuxiliaryDevice);
+    if (notes) for (const n of notes) stage.notes.push(n);
+    if (auxiliary) for (const x of auxiliary) stage.auxiliary.push({ element: elementAt[x.edge], node: x.node, rail: x.rail } satisfies AuxiliaryDevice);
     if (ok) {
       let upEdges = up;
       let downEdges = down;
-      if (auxiliary.length) {
+      if (auxiliary) {
         const auxSet = new Set<number>();
         for (const x of auxiliary) auxSet.add(x.edge);
         upEdges = up.filter((e) => !auxSet.has(e));
@@ -429,13 +463,13 @@ export function extractStages(cell: Cell, rails: readonly (RailKind | undefined)
   }
 
   // Netlist order of anchors, so reports read top to bottom.
-  stages.sort((x, y) => compareLoc(x.anchor, y.anchor, rank));
-  for (let i = 0; i < stages.length; i++) {
-    const s = stages[i];
+  const ordered = inAnchorOrder(stages, rank);
+  for (let i = 0; i < ordered.length; i++) {
+    const s = ordered[i];
     s.id = i;
     if (s.output !== null && s.kind !== 'pass') driverOf.set(s.output, i);
   }
-  return { stages, driverOf, alias };
+  return { stages: ordered, driverOf, alias };
 }
 
 function ascending(x: number, y: number): number {
@@ -459,6 +493,51 @@ function sortAscending(xs: number[]): number[] {
 
 function never(): boolean {
   return false;
+}
+
+/**
+ * The stages sorted by anchor as `compareLoc` orders them (a stable sort), comparing numbers: each anchor's file is
+ * replaced by its position among the anchors' files in `compareLoc` order.
+ */
+function inAnchorOrder(stages: Stage[], rank?: (file: string) => number): Stage[] {
+  const n = stages.length;
+  const fileIds = new Map<string, number>();
+  const files: string[] = [];
+  const fileOf = new Int32Array(n);
+  const line = new Float64Array(n);
+  const column = new Float64Array(n);
+  let lastFile: string | null = null;
+  let f = -1;
+  for (let i = 0; i < n; i++) {
+    const a = stages[i].anchor;
+    if (a.file !== lastFile) {
+      lastFile = a.file;
+      const known = fileIds.get(a.file);
+      if (known === undefined) {
+        f = files.push(a.file) - 1;
+        fileIds.set(a.file, f);
+      } else f = known;
+    }
+    fileOf[i] = f;
+    line[i] = a.line;
+    column[i] = a.column;
+  }
+  const fileOrder = files.map((_, i) => i).sort((x, y) => compareLoc({ file: files[x], line: 0, column: 0 }, { file: files[y], line: 0, column: 0 }, rank));
+  const position = new Int32Array(files.length);
+  for (let k = 0; k < fileOrder.length; k++) position[fileOrder[k]] = k;
+  for (let i = 0; i < n; i++) fileOf[i] = position[fileOf[i]];
+  let sorted = true;
+  for (let i = 1; i < n && sorted; i++) {
+    const c = fileOf[i - 1] - fileOf[i] || line[i - 1] - line[i] || column[i - 1] - column[i];
+    if (c > 0) sorted = false;
+  }
+  if (sorted) return stages;
+  const order: number[] = new Array(n);
+  for (let i = 0; i < n; i++) order[i] = i;
+  order.sort((x, y) => fileOf[x] - fileOf[y] || line[x] - line[y] || column[x] - column[y]);
+  const out: Stage[] = new Array(n);
+  for (let i = 0; i < n; i++) out[i] = stages[order[i]];
+  return out;
 }
 
 function compareLoc(x: SourceLoc, y: SourceLoc, rank?: (file: string) => number): number {

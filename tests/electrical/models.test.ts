@@ -161,6 +161,32 @@ describe('stack solutions', () => {
   });
 });
 
+describe('long stacks', () => {
+  it('a series chain of 100 resistors carries V / ΣR (Ohm’s law), and a two-element chain solved after it still does', async () => {
+    const { NetworkEvaluator } = await import('../../rules/electrical/network');
+    // Ohm's law for resistors in series: I = V / (R1 + … + Rn). The chain is longer than the solver's first work arrays.
+    const count = 100;
+    const resistances = Array.from({ length: count }, (_, i) => 1e3 * (1 + (i % 7)));
+    const elements = resistances.map((r) => ({ kind: 'res' as const, conductance: 1 / r }));
+    // Node 0 ground, 1 the top end, 2 … count internal.
+    const node = (i: number) => (i === 0 ? 1 : i === count ? 0 : i + 1);
+    const chain = {
+      kind: 'series' as const,
+      a: 1,
+      b: 0,
+      nodes: Array.from({ length: count - 1 }, (_, i) => i + 2),
+      children: resistances.map((_, i) => ({ kind: 'leaf' as const, element: i, a: node(i), b: node(i + 1) })),
+    };
+    const v = new Float64Array(count + 1);
+    v[1] = 2.5;
+    const total = resistances.reduce((x, y) => x + y, 0);
+    expect(new NetworkEvaluator(elements, v).current(chain) / (2.5 / total)).toBeCloseTo(1, 9);
+    const short = { kind: 'series' as const, a: 1, b: 0, nodes: [2], children: [{ kind: 'leaf' as const, element: 0, a: 1, b: 2 }, { kind: 'leaf' as const, element: 1, a: 2, b: 0 }] };
+    const w = new Float64Array([0, 1.2, 0]);
+    expect(new NetworkEvaluator(elements, w).current(short) / (1.2 / (resistances[0] + resistances[1]))).toBeCloseTo(1, 9);
+  });
+});
+
 describe('currents read by node index (the network solver’s unboxed path)', () => {
   it('channelCurrentAt and channelCurrentSlopesAt equal channelCurrent and channelCurrentSlopes bit for bit, both polarities and models', async () => {
     const { channelCurrentAt, channelCurrentSlopes, channelCurrentSlopesAt } = await import('../../rules/electrical/mos');

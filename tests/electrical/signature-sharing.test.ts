@@ -8,7 +8,7 @@ import { describe, expect, it } from 'vitest';
 import { defaultDeck } from '../../rules/default-deck';
 import { localRails } from '../../rules/engine';
 import { makeContext, stageEnvironmentOf } from '../../rules/recognition/context';
-import { analyseStage, analysisStats, stageAnalysesOf, stageSignature, stagesOf, type StageAnalysis } from '../../rules/stages';
+import { analyseStage, analysisStats, STATIC_KINDS, stageAnalysesOf, stageSignature, stagesOf, type Stage, type StageAnalysis } from '../../rules/stages';
 import { generateFlatNetlist } from '../bench/netlist';
 import { read } from '../recognition/support';
 
@@ -51,5 +51,17 @@ describe('analyses shared by signature', () => {
     }
     expect(compared).toBeGreaterThan(100);
     expect([...bySignature.values()].some((n) => n > 1)).toBe(true);
+  });
+
+  it('only the static kinds get a transfer curve: a dynamic node or a pass device restores no level on its own', () => {
+    // A dynamic node is not regenerative and a pass device has no supply path, so neither has a static DC transfer curve;
+    // inverters, complementary, ratioed and clocked stages do (Rabaey et al., Digital Integrated Circuits, 2nd ed., ch. 6, chapter cited from memory).
+    const inverter = stagesOf(ctx).stages.find((st) => st.kind === 'inverter')!;
+    const kinds: Stage['kind'][] = ['inverter', 'complementary', 'ratioed', 'clocked', 'dynamic', 'pass', 'other'];
+    for (const kind of kinds) {
+      const a = analyseStage({ ...env, design: { ...design } }, { ...inverter, kind, notes: [] });
+      expect(a.skipped === null, kind).toBe(STATIC_KINDS.has(kind));
+      expect(a.inputs.length > 0, kind).toBe(STATIC_KINDS.has(kind));
+    }
   });
 });

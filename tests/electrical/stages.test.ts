@@ -55,6 +55,28 @@ describe('stage extraction', () => {
     expect(t.stages.stages.map((st) => st.anchor.line)).toEqual([2, 4]);
   });
 
+  it('stages follow netlist order across files: file order first (the order the files are read), then line', () => {
+    // A buffer whose second inverter comes from an earlier-read file: SPICE reads an .include where it stands, so that
+    // file's lines precede the including file's later lines (here the second file is read first).
+    const cell = new CellBuilder('buf', ['a', 'y', 'vdd', 'vss'])
+      .nmos('MN1', 'x', 'a', 'vss', 'vss', s)
+      .pmos('MP1', 'x', 'a', 'vdd', 'vdd', s)
+      .pmos('MP2', 'y', 'x', 'vdd', 'vdd', s)
+      .nmos('MN2', 'y', 'x', 'vss', 'vss', s)
+      .build();
+    cell.mosfets[2].loc = { file: 'lib/inv.sp', line: 8, column: 1 };
+    cell.mosfets[3].loc = { file: 'lib/inv.sp', line: 9, column: 1 };
+    const rails = localRails(designOf([cell]), cell, deck);
+    const rank = (order: string[]) => (f: string) => order.indexOf(f);
+    const ordered = (order: string[]) => extractStages(cell, rails, { fileRank: rank(order) }).stages.map((st) => cell.nets[st.output!]);
+    expect(ordered(['lib/inv.sp', 'buf.sp'])).toEqual(['y', 'x']);
+    expect(ordered(['buf.sp', 'lib/inv.sp'])).toEqual(['x', 'y']);
+    const late = extractStages(cell, rails, { fileRank: rank(['lib/inv.sp', 'buf.sp']) }).stages[0];
+    // The anchor is the stage's first device in netlist order: line 8 of its file.
+    expect(late.anchor).toEqual({ file: 'lib/inv.sp', line: 8, column: 1 });
+    expect(late.id).toBe(0);
+  });
+
   it('an AOI21 is complementary: series/parallel duals', () => {
     const t = stagesOf(
       new CellBuilder('aoi21', ['a1', 'a2', 'b', 'y', 'vdd', 'vss'])
