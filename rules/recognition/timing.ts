@@ -297,11 +297,14 @@ function propagate(ctx: CellContext, index: CellIndex, seeds: readonly Seed[], s
     assign(s.output, evaluateStatic(s, logicOf(s), timing, t.phase));
   };
 
-  const used = (net: number, exceptInstance: number) => {
-    if (index.gates.count(net) > 0) return true;
+  // Whether anything here besides pin `pin` of instance `instance` touches the net: a device, another pin (of another
+  // instance or of the same one) or, in a relation summary, a port.
+  const usedBesides = (net: number, instance: number, pin: number) => {
+    if (index.gates.count(net) > 0 || index.channel.count(net) > 0 || index.others.count(net) > 0) return true;
     if (summary && index.isPort[net]) return true;
     const insts = index.pinInstances.of(net);
-    for (let k = 0; k < insts.length; k++) if (insts[k] !== exceptInstance) return true;
+    const ports = index.pinPorts.of(net);
+    for (let k = 0; k < insts.length; k++) if (insts[k] !== instance || ports[k] !== pin) return true;
     return false;
   };
 
@@ -310,11 +313,12 @@ function propagate(ctx: CellContext, index: CellIndex, seeds: readonly Seed[], s
     const ports = index.pinPorts.of(net);
     for (let k = 0; k < insts.length; k++) {
       const inst = cell.instances[insts[k]];
-      // Only ask the child when some other pin's net is used here (the relation costs a trace of the child).
+      // Only ask the child when the net of some other pin is used here besides that pin: the relation costs a trace of
+      // the whole child, and a net that only the child touches learns nothing here that the child's own trace lacks.
       let wanted = false;
       for (let j = 0; j < inst.pins.length && !wanted; j++) {
         const m = index.alias[inst.pins[j]];
-        if (j !== ports[k] && m !== net && !index.railOf(m) && (!timing[m] || named[m]) && used(m, -1)) wanted = true;
+        if (j !== ports[k] && m !== net && !index.railOf(m) && (!timing[m] || named[m]) && usedBesides(m, insts[k], j)) wanted = true;
       }
       if (!wanted) continue;
       const relation = portRelation(ctx, insts[k], ports[k]);

@@ -158,6 +158,28 @@ describe('clocks across the hierarchy', () => {
     expect(levels(blk.timing.get('ck_p'))).toBe('clk:01');
   });
 
+  it('asks a child what it does with a clock only where the parent reads the answer; the child traces its own outputs either way', () => {
+    const t = trace(
+      [
+        cells,
+        '.subckt pair clk z vdd vss',
+        // qm gates a device here, so the parent must know it is the inverted clock; qn is touched by nothing but xn
+        'xm clk qm vdd vss inv',
+        'xn clk qn vdd vss inv',
+        'mg z qm vss vss nch w=1u l=0.25u',
+        'mz z vdd vdd vdd pch w=1u l=0.25u',
+        '.ends',
+      ].join('\n'),
+    );
+    const pair = t.find((s) => s.cell === 'pair')!;
+    expect(levels(pair.timing.get('qm'))).toBe('clk:10');
+    expect(levels(pair.timing.get('qn'))).toBe('none');
+    // Whatever each instance of inv is told about y, its own trace makes y the inverted clock.
+    const inv = t.filter((s) => s.cell === 'inv');
+    expect(inv.length).toBeGreaterThan(0);
+    for (const c of inv) expect(levels(c.timing.get('y'))).toBe('clk:10');
+  });
+
   it('feeds each child port the timing its parent’s net has, and analyses each distinct context once', () => {
     const fdom = seen.filter((s) => s.cell === 'fdom');
     // x0 and x1 share one context (the clock on pc); x2 has a context of its own (no clock).
