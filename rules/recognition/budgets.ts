@@ -24,8 +24,8 @@ import { ModelResolver } from '../electrical/parameters';
 import { analyseStage } from '../stages';
 import type { CellContext } from '../types';
 import { cellIndex, childContext, designMemo, stageEnvironmentOf } from './context';
-import { NumberKey, NumberKeyTable, StringCodes } from './number-key';
-import type { DynamicNode } from './dynamic';
+import { lowerCaseModel, modelCode, NumberKey, NumberKeyTable } from '../signature-key';
+import type { DynamicNode, Keeper } from './dynamic';
 
 export interface Threshold {
   /** VIH of the most sensitive receiver for a precharged-high node, VIL for a pre-discharged one; VDD/2 when no receiver has one. */
@@ -80,7 +80,7 @@ const ROLE_POWER = -1;
 const ROLE_GROUND = -2;
 const ROLE_NODE = -3;
 const hoodKey = new NumberKey();
-const codes = new StringCodes();
+const KEEPER_CODES: Record<Keeper['kind'], number> = { half: 0, full: 1, 'always-on': 2 };
 
 function neighbourhood(d: DynamicNode): Neighbourhood {
   const { ctx, stage } = d;
@@ -143,14 +143,14 @@ function neighbourhood(d: DynamicNode): Neighbourhood {
 function encodeNeighbourhood(d: DynamicNode, hood: Neighbourhood, key: NumberKey): void {
   const { mosfets, others, elements, role } = hood;
   key.reset();
-  key.push(codes.of(d.style));
+  key.push(d.style === 'n-evaluate' ? 0 : 1);
   key.push(mosfets.length);
   for (const m of mosfets) {
     key.push(m.polarity === 'n' ? 0 : 1);
     key.push(m.w);
     key.push(m.l);
     key.push(m.m);
-    key.push(codes.of(lowerCase(m.model)));
+    key.push(modelCode(m.model));
     key.push(role(m.drain));
     key.push(role(m.gate));
     key.push(role(m.source));
@@ -180,7 +180,7 @@ function encodeNeighbourhood(d: DynamicNode, hood: Neighbourhood, key: NumberKey
   shape(d.evaluation);
   key.push(d.keepers.length);
   for (const k of d.keepers) {
-    key.push(codes.of(k.kind));
+    key.push(KEEPER_CODES[k.kind]);
     shape(k.network);
   }
   key.push(d.footers.length);
@@ -202,22 +202,10 @@ function keeperSignatures(d: DynamicNode, hood: Neighbourhood): string[] {
     const el = elements[n.element];
     if (el.kind !== 'mos') return 'r';
     const m = mosfets[el.index];
-    return `${m.polarity}${m.w},${m.l},${m.m},${lowerCase(m.model)},${role(m.bulk)}`;
+    return `${m.polarity}${m.w},${m.l},${m.m},${lowerCaseModel(m.model)},${role(m.bulk)}`;
   };
   const evalSig = deviceOf(d.evaluation);
   return d.keepers.map((k) => `${d.style}|${deviceOf(k.network)}|${evalSig}`);
-}
-
-const lowerNames = new Map<string, string>();
-
-/** Model names in lower case, converted once per distinct name. */
-function lowerCase(name: string): string {
-  let lower = lowerNames.get(name);
-  if (lower === undefined) {
-    lower = name.toLowerCase();
-    if (lowerNames.size < 4096) lowerNames.set(name, lower);
-  }
-  return lower;
 }
 
 /**

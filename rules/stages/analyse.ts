@@ -17,6 +17,7 @@ import { analyseTransfer, FIRST_INTERNAL, GROUND, INPUT, OUTPUT, POWER, Transfer
 import { outputValue, stageLogic } from './classify';
 import type { Stage } from './stage';
 import { GROUND_END, POWER_END } from './stage';
+import { modelCode, NumberKey, NumberKeyTable } from '../signature-key';
 
 /** Kinds with a static transfer curve. */
 export const STATIC_KINDS: ReadonlySet<Stage['kind']> = new Set(['inverter', 'complementary', 'ratioed', 'clocked']);
@@ -93,7 +94,7 @@ export interface AnalysisStats {
 interface DesignMemo {
   transfers: Map<string, TransferResult>;
   /** Per deck: structural stage key → analysis with inputs by position. */
-  stages: WeakMap<Deck, SignatureTable>;
+  stages: WeakMap<Deck, NumberKeyTable<CachedStage>>;
   stats: AnalysisStats;
   resolvers: Map<Corner, Map<boolean, ModelResolver>>;
   modelKeys: Map<ResolvedModel, string>;
@@ -339,7 +340,7 @@ export function marginOf(r: TransferResult): number {
 export function stageSignature(env: StageEnvironment, stage: Stage): string {
   const encoder = new SignatureEncoder();
   encoder.encode(env, stage);
-  return Array.from(encoder.key.subarray(0, encoder.length)).join(',');
+  return Array.from(encoder.copy()).join(',');
 }
 
 const KIND_CODES: Record<Stage['kind'], number> = { inverter: 0, complementary: 1, ratioed: 2, clocked: 3, dynamic: 4, pass: 5, other: 6 };
@@ -358,21 +359,8 @@ const ROLE_OUTPUT = -3;
 /** Input i is ROLE_INPUT − i; internal nodes are 0, 1, 2 … by first use. */
 const ROLE_INPUT = -16;
 
-const modelIds = new Map<string, number>();
-
-/** A number per lower-case model name. */
-function modelId(name: string): number {
-  const lower = lowerCase(name);
-  let id = modelIds.get(lower);
-  if (id === undefined) modelIds.set(lower, (id = modelIds.size));
-  return id;
-}
-
 /** Writes a stage's signature as numbers into one reused buffer, with its hash; no strings, no per-stage closures. */
-class SignatureEncoder {
-  key = new Float64Array(256);
-  length = 0;
-  private words = new Int32Array(this.key.buffer);
+class SignatureEncoder extends NumberKey {
   /** Internal nodes by first use: `local[0 … localCount − 1]` (a count, not an array length, which costs a call to reset). */
   private local = new Int32Array(64);
   private localCount = 0;
@@ -382,7 +370,7 @@ class SignatureEncoder {
   encode(env: StageEnvironment, stage: Stage): void {
     this.env = env;
     this.stage = stage;
-    this.length = 0;
+    this.reset();
     this.localCount = 0;
     const { cell, alias } = env;
     this.push(KIND_CODES[stage.kind]);
@@ -401,7 +389,7 @@ class SignatureEncoder {
         this.push(m.w);
         this.push(m.l);
         this.push(m.m);
-        this.push(modelId(m.model));
+        this.push(modelCode(m.model));
         this.push(this.role(alias[m.gate]));
         this.push(this.role(alias[m.bulk]));
       }
@@ -421,32 +409,6 @@ class SignatureEncoder {
     if (stage.pullUp) markElements(stage.pullUp, mask);
     if (stage.pullDown) markElements(stage.pullDown, mask);
     return mask;
-  }
-
-  /** FNV-1a over the 32-bit halves of the encoded numbers. */
-  hash(): number {
-    let h = 0x811c9dc5;
-    const w = this.words;
-    for (let i = 0; i < 2 * this.length; i++) h = Math.imul(h ^ w[i], 0x01000193);
-    return h;
-  }
-
-  /** Whether `other` holds the encoding now in the buffer. */
-  equals(other: Float64Array): boolean {
-    if (other.length !== this.length) return false;
-    const key = this.key;
-    for (let i = 0; i < other.length; i++) if (other[i] !== key[i]) return false;
-    return true;
-  }
-
-  private push(x: number): void {
-    if (this.length === this.key.length) {
-      const grown = new Float64Array(2 * this.key.length);
-      grown.set(this.key);
-      this.key = grown;
-      this.words = new Int32Array(grown.buffer);
-    }
-    this.key[this.length++] = x;
   }
 
   private role(net: number): number {
@@ -486,37 +448,7 @@ class SignatureEncoder {
   }
 }
 
-/** Analyses by stage signature: buckets by hash, entries compared number by number. */
-class SignatureTable {
-  private readonly buckets = new Map<number, { key: Float64Array; value: CachedStage }[]>();
-
-  get(encoder: SignatureEncoder, hash: number): CachedStage | undefined {
-    const bucket = this.buckets.get(hash);
-    if (bucket) for (const e of bucket) if (encoder.equals(e.key)) return e.value;
-    return undefined;
-  }
-
-  set(key: Float64Array, hash: number, value: CachedStage): void {
-    const entry = { key, value };
-    const bucket = this.buckets.get(hash);
-    if (bucket) bucket.push(entry);
-    else this.buckets.set(hash, [entry]);
-  }
-}
-
 const encoder = new SignatureEncoder();
-
-const lowerNames = new Map<string, string>();
-
-/** Model names in lower case, converted once per distinct name. */
-function lowerCase(name: string): string {
-  let lower = lowerNames.get(name);
-  if (lower === undefined) {
-    lower = name.toLowerCase();
-    if (lowerNames.size < 4096) lowerNames.set(name, lower);
-  }
-  return lower;
-}
 
 function solveStage(env: StageEnvironment, stage: Stage, memo: DesignMemo): CachedStage {
   const inputs: CachedStage['inputs'] = [];
@@ -650,16 +582,12 @@ export function analyseStage(env: StageEnvironment, stage: Stage): StageAnalysis
   if (stage.inputs.length > MAX_ANALYSED_INPUTS) return new StageAnalysisView(stage, null, `${stage.inputs.length} inputs: beyond the ${MAX_ANALYSED_INPUTS} whose held values can be enumerated`);
   const memo = memoOf(env.design);
   let byDeck = memo.stages.get(env.deck);
-  if (!byDeck) memo.stages.set(env.deck, (byDeck = new SignatureTable()));
+  if (!byDeck) memo.stages.set(env.deck, (byDeck = new NumberKeyTable<CachedStage>()));
   encoder.encode(env, stage);
-  const hash = encoder.hash();
-  let cached = byDeck.get(encoder, hash);
-  if (!cached) {
-    const key = encoder.key.slice(0, encoder.length);
-    cached = solveStage(env, stage, memo);
-    byDeck.set(key, hash, cached);
+  const cached = byDeck.getOrCompute(encoder, () => {
     memo.stats.signatures++;
-  }
+    return solveStage(env, stage, memo);
+  });
   return new StageAnalysisView(stage, cached, cached.inputs.length ? null : 'no input controls the output on its own');
 }
 

@@ -11,7 +11,7 @@ import { defaultDeck } from '../../rules/default-deck';
 import { defineRule, type CellContext } from '../../rules/types';
 import { dynamicBudgets, type CornerBudget } from '../../rules/recognition/budgets';
 import { dynamicNodesOf } from '../../rules/recognition/dynamic';
-import { NumberKey, NumberKeyTable } from '../../rules/recognition/number-key';
+import { NumberKey, NumberKeyTable } from '../../rules/signature-key';
 import { read } from './support';
 
 // Invented: the "Tarnwell" match line, footed domino gates with half keepers, written the way a schematic netlister does.
