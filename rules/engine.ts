@@ -87,8 +87,12 @@ export function checkDesign(design: Design, deck: Deck, options: CheckOptions = 
         signals: context.signals.length ? context.signals : undefined,
         root: isRoot,
         memo<T>(k: string, compute: () => T): T {
-          if (!memo.has(k)) memo.set(k, compute());
-          return memo.get(k) as T;
+          // One lookup on a hit (memos are read millions of times on a flat netlist); `has` only for a stored undefined.
+          const hit = memo.get(k);
+          if (hit !== undefined || memo.has(k)) return hit as T;
+          const value = compute();
+          memo.set(k, value);
+          return value;
         },
       };
       // Clock tracing comes first: its hint decides how footless dynamic stages are classified, for every rule.

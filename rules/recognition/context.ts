@@ -83,8 +83,11 @@ export function designMemo<T>(design: Design, deck: Deck, key: string, compute: 
   if (!byDeck) designMemos.set(design, (byDeck = new WeakMap()));
   let store = byDeck.get(deck);
   if (!store) byDeck.set(deck, (store = new Map()));
-  if (!store.has(key)) store.set(key, compute());
-  return store.get(key) as T;
+  const hit = store.get(key);
+  if (hit !== undefined || store.has(key)) return hit as T;
+  const value = compute();
+  store.set(key, value);
+  return value;
 }
 
 /** `localRails` of a cell, computed once per design and deck (callers copy it before adding port rails). */
@@ -111,8 +114,11 @@ export function makeContext(design: Design, deck: Deck, cell: Cell, rails: (Rail
     signals: options.signals,
     root: options.root,
     memo<T>(k: string, compute: () => T): T {
-      if (!memo.has(k)) memo.set(k, compute());
-      return memo.get(k) as T;
+      const hit = memo.get(k);
+      if (hit !== undefined || memo.has(k)) return hit as T;
+      const value = compute();
+      memo.set(k, value);
+      return value;
     },
   };
 }

@@ -151,9 +151,10 @@ export function timingOf(ctx: CellContext): TimingResult {
     const first = rootInitials(ctx);
     const names = ctx.cell.nets;
     for (let net = 0; net < names.length; net++) {
-      if (alias[net] !== net || index.railOf(net)) continue;
+      if (alias[net] !== net) continue;
       const name = names[net];
-      if (first && !first.has(name.charCodeAt(0) | 0x20)) continue;
+      if (first && !first[(name.charCodeAt(0) | 0x20) & 0xffff]) continue;
+      if (index.railOf(net)) continue;
       if (index.gates.count(net) === 0 && index.pinInstances.count(net) === 0 && !index.isPort[net]) continue;
       const root = namer(name);
       if (root) seeds.push({ net, timing: { phase: root.phase, low: root.inverted ? 1 : 0, high: root.inverted ? 0 : 1, kind: 'clock' }, named: true });
@@ -167,15 +168,14 @@ export function timingOf(ctx: CellContext): TimingResult {
   });
 }
 
-/** Lower-case first characters every clock-root pattern must start with, or null when some pattern starts with a wildcard. */
-function rootInitials(ctx: CellContext): Set<number> | null {
-  const set = new Set<number>();
+/** Lower-case first characters (as a table by UTF-16 unit) every clock-root pattern must start with, or null when some pattern starts with a wildcard. */
+function rootInitials(ctx: CellContext): Uint8Array | null {
+  const table = new Uint8Array(0x10000);
   for (const r of ctx.deck.clocks.roots) {
-    const c = r.pattern.charCodeAt(0);
     if (r.pattern[0] === '*' || r.pattern[0] === '?') return null;
-    set.add(c | 0x20);
+    table[(r.pattern.charCodeAt(0) | 0x20) & 0xffff] = 1;
   }
-  return set;
+  return table;
 }
 
 /**
