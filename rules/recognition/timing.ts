@@ -217,6 +217,12 @@ function propagate(ctx: CellContext, index: CellIndex, seeds: readonly Seed[], s
   const timing: (Timing | undefined)[] = new Array(n);
   const named = new Uint8Array(n);
   const dynamic = new Map<number, DynamicInfo>();
+  // The same by stage id, for the lookup on every visit of a stage.
+  const dynamicOf: (DynamicInfo | undefined)[] = new Array(stages.length);
+  const setDynamic = (id: number, info: DynamicInfo) => {
+    dynamic.set(id, info);
+    dynamicOf[id] = info;
+  };
   const refined: number[] = [];
   for (const s of stages) {
     if (s.kind !== 'dynamic' || !s.dynamic || s.output === null) continue;
@@ -224,7 +230,7 @@ function propagate(ctx: CellContext, index: CellIndex, seeds: readonly Seed[], s
     // keeper (fed back from the node's inverter to both sides) looks like that too. The precharge is then another one.
     const info = drivenFromNode(index, s.dynamic.clock, s.output) ? reselectPrecharge(ctx, index, s) : s.dynamic;
     if (!info) continue;
-    dynamic.set(s.id, info);
+    setDynamic(s.id, info);
     if (info !== s.dynamic) refined.push(s.id);
   }
   const logics = new Map<number, StageLogic>();
@@ -272,7 +278,7 @@ function propagate(ctx: CellContext, index: CellIndex, seeds: readonly Seed[], s
 
   const visitStage = (s: Stage, from: number) => {
     const t = timing[from]!;
-    const info = dynamic.get(s.id);
+    const info = dynamicOf[s.id];
     if (info) {
       if (info.clock === from && s.output !== null) assign(s.output, nodeTiming(info, t));
       return;
@@ -280,7 +286,7 @@ function propagate(ctx: CellContext, index: CellIndex, seeds: readonly Seed[], s
     if (s.kind === 'clocked' && s.output !== null && (isClockTiming(t) || t.kind === 'enable')) {
       const found = footlessDynamic(ctx, index, s, from);
       if (found) {
-        dynamic.set(s.id, found);
+        setDynamic(s.id, found);
         refined.push(s.id);
         assign(s.output, nodeTiming(found, t));
         return;
@@ -347,14 +353,14 @@ function propagate(ctx: CellContext, index: CellIndex, seeds: readonly Seed[], s
   if (!summary) {
     for (const s of stages) {
       if (s.output === null) continue;
-      let info = dynamic.get(s.id);
+      let info = dynamicOf[s.id];
       if (!info && s.kind === 'clocked') {
         for (const g of s.inputs) {
           if (timing[g]) continue;
           const found = footlessDynamic(ctx, index, s, g);
           if (found) {
             info = found;
-            dynamic.set(s.id, found);
+            setDynamic(s.id, found);
             refined.push(s.id);
             break;
           }
