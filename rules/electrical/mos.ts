@@ -41,18 +41,19 @@ export function forwardCurrent(m: MosModel, beta: number, vgs: number, vds: numb
   return beta * (vgt * vmin - 0.5 * vmin * vmin) * (1 + m.lambda * vds);
 }
 
+/** Terminal voltages of the by-value forms below, as the by-index forms read them. */
+const terminals = new Float64Array(4);
+
 /**
  * Current flowing through the channel from terminal `a` to terminal `b`.
  * The device is symmetric: whichever of a and b is lower (higher for p-channel) acts as the source.
  */
 export function channelCurrent(m: MosModel, beta: number, va: number, vb: number, vg: number, vbulk: number): number {
-  if (m.polarity === 'p') return -nChannelCurrent(m, beta, -va, -vb, -vg, -vbulk);
-  return nChannelCurrent(m, beta, va, vb, vg, vbulk);
-}
-
-function nChannelCurrent(m: MosModel, beta: number, va: number, vb: number, vg: number, vbulk: number): number {
-  if (va >= vb) return forwardCurrent(m, beta, vg - vb, va - vb, vb - vbulk);
-  return -forwardCurrent(m, beta, vg - va, vb - va, va - vbulk);
+  terminals[0] = va;
+  terminals[1] = vb;
+  terminals[2] = vg;
+  terminals[3] = vbulk;
+  return channelCurrentAt(m, beta, terminals, 0, 1, 2, 3);
 }
 
 /**
@@ -60,80 +61,16 @@ function nChannelCurrent(m: MosModel, beta: number, va: number, vb: number, vg: 
  * (gate and bulk held), written into `out` as [I, ∂I/∂Va, ∂I/∂Vb]. Analytic, region by region.
  */
 export function channelCurrentSlopes(m: MosModel, beta: number, va: number, vb: number, vg: number, vbulk: number, out: Float64Array): void {
-  if (m.polarity === 'p') {
-    // I_p(va, vb) = −I_n(−va, −vb): the derivatives keep their sign.
-    nChannelSlopes(m, beta, -va, -vb, -vg, -vbulk, out);
-    out[0] = -out[0];
-    return;
-  }
-  nChannelSlopes(m, beta, va, vb, vg, vbulk, out);
+  terminals[0] = va;
+  terminals[1] = vb;
+  terminals[2] = vg;
+  terminals[3] = vbulk;
+  channelCurrentSlopesAt(m, beta, terminals, 0, 1, 2, 3, out);
 }
 
-const partials = new Float64Array(4);
-
-function nChannelSlopes(m: MosModel, beta: number, va: number, vb: number, vg: number, vbulk: number, out: Float64Array): void {
-  if (va >= vb) {
-    // Indexed reads: destructuring a typed array goes through its iterator, which allocates on this hot path.
-    forwardPartials(m, beta, vg - vb, va - vb, vb - vbulk, partials);
-    const gs = partials[1];
-    const ds = partials[2];
-    out[0] = partials[0];
-    out[1] = ds;
-    out[2] = -gs - ds + partials[3];
-  } else {
-    forwardPartials(m, beta, vg - va, vb - va, va - vbulk, partials);
-    const gs = partials[1];
-    const ds = partials[2];
-    out[0] = -partials[0];
-    out[1] = gs + ds - partials[3];
-    out[2] = -ds;
-  }
-}
-
-/** [I, ∂I/∂VGS, ∂I/∂VDS, ∂I/∂VSB] of `forwardCurrent`. */
-function forwardPartials(m: MosModel, beta: number, vgs: number, vds: number, vsb: number, out: Float64Array): void {
-  let dvt = 0;
-  let vt = m.vt0;
-  if (m.gamma !== 0) {
-    const root = m.phi2F + vsb;
-    if (root > 0) {
-      const sq = Math.sqrt(root);
-      vt += m.gamma * (sq - Math.sqrt(m.phi2F));
-      dvt = m.gamma / (2 * sq);
-    } else vt -= m.gamma * Math.sqrt(m.phi2F);
-  }
-  const vgt = vgs - vt;
-  if (vgt <= 0) {
-    out[0] = out[1] = out[2] = out[3] = 0;
-    return;
-  }
-  const mod = 1 + m.lambda * vds;
-  let q: number;
-  let dqGt: number;
-  let dqDs: number;
-  const sat = m.kind === 'velocity-saturated' && m.vdsat < vgt && m.vdsat < vds;
-  if (sat) {
-    q = vgt * m.vdsat - 0.5 * m.vdsat * m.vdsat;
-    dqGt = m.vdsat;
-    dqDs = 0;
-  } else if (vds < vgt) {
-    q = vgt * vds - 0.5 * vds * vds;
-    dqGt = vds;
-    dqDs = vgt - vds;
-  } else {
-    q = 0.5 * vgt * vgt;
-    dqGt = vgt;
-    dqDs = 0;
-  }
-  out[0] = beta * q * mod;
-  out[1] = beta * dqGt * mod;
-  out[2] = beta * (dqDs * mod + q * m.lambda);
-  out[3] = -out[1] * dvt;
-}
-
-// The same currents and slopes read from a node-voltage array by node index. A call that passes voltages as numbers
-// boxes each one on the heap unless the compiler inlines it, and the network solver makes millions of these calls;
-// indices pass unboxed. The arithmetic is that of the functions above, operation for operation.
+// The currents and slopes read from a node-voltage array by node index: the network solver's form. A call that passes
+// voltages as numbers boxes each one on the heap unless the compiler inlines it, and the solver makes millions of these
+// calls; indices pass unboxed. The current is `forwardCurrent` of the device's source end, p-channel by mirror image.
 
 /** `channelCurrent` with its voltages `v[a]`, `v[b]`, `v[g]`, `v[bulk]`. */
 export function channelCurrentAt(m: MosModel, beta: number, v: Float64Array, a: number, b: number, g: number, bulk: number): number {

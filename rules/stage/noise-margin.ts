@@ -29,25 +29,24 @@ export default defineRule({
     for (const a of stageAnalysesOf(ctx)) {
       const narrowest = a.smallestMargin();
       if (!narrowest || narrowest.value >= p.minFraction) continue;
-      const corner = narrowest.corner;
-      const { nmh, nml } = corner.worstMargin.result;
-      const high = nmh! < nml!;
-      const worst = { fraction: narrowest.value, margin: high ? nmh! : nml!, high, input: narrowest.input, corner };
+      const { corner, input, value: fraction } = narrowest;
       const st = a.stage;
-      const r = worst.corner.worstMargin.result;
-      const held = heldText(cell, worst.corner.worstMargin.held);
-      const which = worst.high ? `NMH = VOH − VIH = ${volts(r.voh)} − ${volts(r.vih!)}` : `NML = VIL − VOL = ${volts(r.vil!)} − ${volts(r.vol)}`;
+      const r = corner.worstMargin.result;
+      const high = r.nmh! < r.nml!;
+      const margin = high ? r.nmh! : r.nml!;
+      const held = heldText(cell, corner.worstMargin.held);
+      const which = high ? `NMH = VOH − VIH = ${volts(r.voh)} − ${volts(r.vih!)}` : `NML = VIL − VOL = ${volts(r.vil!)} − ${volts(r.vol)}`;
       report({
         message:
-          `${stageLabel(cell, st)}: ${which} = ${volts(worst.margin)}, ${(100 * worst.fraction).toFixed(1)} % of VDD ` +
-          `(input ${cell.nets[worst.input]}${held ? `, ${held}` : ''}; corner ${worst.corner.corner}), below ${(100 * p.minFraction).toFixed(1)} %. ` +
-          `Device values: ${sourcesText(worst.corner)}.`,
+          `${stageLabel(cell, st)}: ${which} = ${volts(margin)}, ${(100 * fraction).toFixed(1)} % of VDD ` +
+          `(input ${cell.nets[input]}${held ? `, ${held}` : ''}; corner ${corner.corner}), below ${(100 * p.minFraction).toFixed(1)} %. ` +
+          `Device values: ${sourcesText(corner)}.`,
         loc: st.anchor,
         nets: [...(st.output === null ? [] : [cell.nets[st.output]]), ...st.inputs.map((n) => cell.nets[n])],
         devices: stageDeviceNames(cell, st),
-        measured: { value: worst.margin, unit: 'V' },
-        limit: { value: p.minFraction * worst.corner.vdd, unit: 'V' },
-        corner: worst.corner.corner,
+        measured: { value: margin, unit: 'V' },
+        limit: { value: p.minFraction * corner.vdd, unit: 'V' },
+        corner: corner.corner,
         plot: transferPlot(r),
       });
     }

@@ -27,21 +27,21 @@ export default defineRule({
     for (const a of stageAnalysesOf(ctx)) {
       const weakest = a.weakestGain();
       if (!weakest || weakest.value > p.minGain) continue;
-      const worst = { gain: weakest.value, input: weakest.input, corner: weakest.corner };
+      const { corner, input } = weakest;
       const st = a.stage;
-      const r = worst.corner.weakestGain.result;
-      const held = heldText(cell, worst.corner.weakestGain.held);
+      const r = corner.weakestGain.result;
+      const held = heldText(cell, corner.weakestGain.held);
       report({
         message:
           `${stageLabel(cell, st)} has gain ${r.gainAtVm.toFixed(2)} V/V at its switching threshold ${volts(r.vm)} ` +
-          `(input ${cell.nets[worst.input]}${held ? `, ${held}` : ''}; corner ${worst.corner.corner}), at or below ${p.minGain} in magnitude: ` +
-          `a disturbed level is not restored. Device values: ${sourcesText(worst.corner)}.`,
+          `(input ${cell.nets[input]}${held ? `, ${held}` : ''}; corner ${corner.corner}), at or below ${p.minGain} in magnitude: ` +
+          `a disturbed level is not restored. Device values: ${sourcesText(corner)}.`,
         loc: st.anchor,
         nets: [...(st.output === null ? [] : [cell.nets[st.output]]), ...st.inputs.map((n) => cell.nets[n])],
         devices: stageDeviceNames(cell, st),
-        measured: { value: worst.gain, unit: 'V/V' },
+        measured: { value: weakest.value, unit: 'V/V' },
         limit: { value: p.minGain, unit: 'V/V' },
-        corner: worst.corner.corner,
+        corner: corner.corner,
         plot: transferPlot(r),
       });
     }

@@ -123,41 +123,36 @@ interface ExtremeAt {
   value: number;
 }
 
-/** Position of the weakest gain, in the order the stage rules have always scanned (inputs, then corners; strict improvement). */
-function weakestAt(cached: CachedStage): ExtremeAt | null {
+type CachedCorner = CachedStage['inputs'][number]['corners'][number];
+
+/**
+ * Position of the smallest `measure` over the inputs, then the corners of each, taking only strict improvements (the
+ * order the stage rules have always scanned in); null when no corner has a measure.
+ */
+function smallestAt(cached: CachedStage, measure: (c: CachedCorner) => number | null): ExtremeAt | null {
   let best: ExtremeAt | null = null;
-  let bestGain = 0;
   for (let i = 0; i < cached.inputs.length; i++) {
     const corners = cached.inputs[i].corners;
     for (let k = 0; k < corners.length; k++) {
-      const c = corners[k];
-      const g = Math.abs(c.cases[c.weakestGain].result.gainAtVm);
-      if (!best || g < bestGain) {
-        best = { input: i, corner: k, value: g };
-        bestGain = g;
-      }
+      const value = measure(corners[k]);
+      if (value !== null && (!best || value < best.value)) best = { input: i, corner: k, value };
     }
   }
   return best;
 }
 
+/** Position of the weakest gain at the switching threshold. */
+function weakestAt(cached: CachedStage): ExtremeAt | null {
+  return smallestAt(cached, (c) => Math.abs(c.cases[c.weakestGain].result.gainAtVm));
+}
+
+/** Position of the narrowest noise margin, as a fraction of the supply. */
 function narrowestAt(cached: CachedStage): ExtremeAt | null {
-  let best: ExtremeAt | null = null;
-  let bestFraction = 0;
-  for (let i = 0; i < cached.inputs.length; i++) {
-    const corners = cached.inputs[i].corners;
-    for (let k = 0; k < corners.length; k++) {
-      const c = corners[k];
-      const r = c.cases[c.worstMargin].result;
-      if (r.nmh === null || r.nml === null) continue;
-      const fraction = (r.nmh < r.nml ? r.nmh : r.nml) / c.vdd;
-      if (!best || fraction < bestFraction) {
-        best = { input: i, corner: k, value: fraction };
-        bestFraction = fraction;
-      }
-    }
-  }
-  return best;
+  return smallestAt(cached, (c) => {
+    const r = c.cases[c.worstMargin].result;
+    if (r.nmh === null || r.nml === null) return null;
+    return (r.nmh < r.nml ? r.nmh : r.nml) / c.vdd;
+  });
 }
 
 const memos = new WeakMap<Design, DesignMemo>();
@@ -199,9 +194,12 @@ function networkKey(n: Network): string {
   return n.kind === 'series' ? `S(${inner})[${n.nodes.join(',')}]` : `P(${inner})`;
 }
 
-/** Which of a stage's elements sit in its pull-up or pull-down network (others, such as a dangling pass gate, carry no output current). */
-export function inNetworks(stage: Stage): Uint8Array {
-  const mask = new Uint8Array(stage.elements.length);
+/**
+ * Which of a stage's elements sit in its pull-up or pull-down network (others, such as a dangling pass gate, carry no
+ * output current). Written into the first `stage.elements.length` entries of `mask` when one is given.
+ */
+export function inNetworks(stage: Stage, mask = new Uint8Array(stage.elements.length)): Uint8Array {
+  mask.fill(0, 0, stage.elements.length);
   if (stage.pullUp) markElements(stage.pullUp, mask);
   if (stage.pullDown) markElements(stage.pullDown, mask);
   return mask;
@@ -335,7 +333,7 @@ export function marginOf(r: TransferResult): number {
  * A stage's signature, independent of net names and of the corner: kind, each element's type, size, model name and the
  * roles of its gate and bulk (rail, output, input by position, internal node by first use), and the network shapes.
  * Stages with equal signatures have equal analyses under one deck. As text, for tests and tools; the analysis memo
- * keys on the numbers themselves (`encodeSignature`), which runs once per stage of a flat netlist.
+ * keys on the numbers themselves (`SignatureEncoder`), which run once per stage of a flat netlist.
  */
 export function stageSignature(env: StageEnvironment, stage: Stage): string {
   const encoder = new SignatureEncoder();
@@ -404,11 +402,7 @@ class SignatureEncoder extends NumberKey {
   private activeElements(stage: Stage): Uint8Array {
     const k = stage.elements.length;
     if (k > this.active.length) this.active = new Uint8Array(2 * k);
-    const mask = this.active;
-    mask.fill(0, 0, k);
-    if (stage.pullUp) markElements(stage.pullUp, mask);
-    if (stage.pullDown) markElements(stage.pullDown, mask);
-    return mask;
+    return inNetworks(stage, this.active);
   }
 
   private role(net: number): number {
@@ -572,9 +566,7 @@ function cornerViews(cachedCorners: CachedStage['inputs'][number]['corners'], ne
 }
 
 export function analyseStage(env: StageEnvironment, stage: Stage): StageAnalysis {
-  const kind = stage.kind;
-  // STATIC_KINDS, compared directly: this runs once per stage of a flat netlist.
-  if (kind !== 'inverter' && kind !== 'complementary' && kind !== 'ratioed' && kind !== 'clocked') {
+  if (!STATIC_KINDS.has(stage.kind)) {
     const why = stage.notes.length ? ` (${stage.notes.join('; ')})` : '';
     return new StageAnalysisView(stage, null, `${stage.kind} stage: no static transfer curve${why}`);
   }

@@ -244,6 +244,14 @@ export function extractStages(cell: Cell, rails: readonly (RailKind | undefined)
   const nextInGroup = new Int32Array(edgeCount).fill(-1);
   const blockRails = new Uint8Array(edgeCount);
   const driven: number[] = [];
+  const joinDriverGroup = (net: number, root: number, railMask: number) => {
+    blockRails[root] = railMask;
+    if (groupFirst[net] < 0) {
+      groupFirst[net] = root;
+      driven.push(net);
+    } else nextInGroup[groupLast[net]] = root;
+    groupLast[net] = root;
+  };
   const passGroups = new Map<string, BlockInfo[]>();
   const loose: BlockInfo[] = [];
   for (const r of roots) {
@@ -259,13 +267,7 @@ export function extractStages(cell: Cell, rails: readonly (RailKind | undefined)
       }
     }
     if (only >= 0) {
-      const o = only;
-      blockRails[r] = railMask;
-      if (groupFirst[o] < 0) {
-        groupFirst[o] = r;
-        driven.push(o);
-      } else nextInGroup[groupLast[o]] = r;
-      groupLast[o] = r;
+      joinDriverGroup(only, r, railMask);
       continue;
     }
     const list: number[] = [];
@@ -279,13 +281,7 @@ export function extractStages(cell: Cell, rails: readonly (RailKind | undefined)
       }
     }
     if (info.observed.length === 1) {
-      const o = info.observed[0];
-      blockRails[r] = (info.power ? RAIL_POWER : 0) | (info.ground ? RAIL_GROUND : 0);
-      if (groupFirst[o] < 0) {
-        groupFirst[o] = r;
-        driven.push(o);
-      } else nextInGroup[groupLast[o]] = r;
-      groupLast[o] = r;
+      joinDriverGroup(info.observed[0], r, (info.power ? RAIL_POWER : 0) | (info.ground ? RAIL_GROUND : 0));
     } else if (info.observed.length >= 2 && !info.power && !info.ground) {
       const key = sortAscending(info.observed).join(',');
       const g = passGroups.get(key);

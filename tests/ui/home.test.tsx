@@ -4,20 +4,9 @@
 
 import { screen, within } from '@testing-library/react';
 import { describe, expect, it } from 'vitest';
-import type { RunView } from '../../shared/api/runs';
 import { blocks, users } from './fixtures';
-import { EARLIER_RUN, RUN } from './runs-fixtures';
+import { EARLIER_RUN, RUN, RUNNING_RUN as running } from './runs-fixtures';
 import { fakeApi, json, renderApp, sessionRoutes } from './support';
-
-const running: RunView = {
-  ...EARLIER_RUN,
-  id: '7f000000-0000-4000-8000-000000000009',
-  state: 'running',
-  summary: null,
-  finishedAt: null,
-  progress: { stage: 'checking', done: 3, total: 8, label: 'Checking cells', updatedAt: '2025-12-02T10:00:01Z' },
-  createdAt: '2025-12-02T10:00:00Z',
-};
 
 describe('overview', () => {
   it('lists the newest runs of the team with their counts and progress, linking to each run', async () => {

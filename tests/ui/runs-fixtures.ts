@@ -188,6 +188,17 @@ export const RUN: RunDetail = {
 
 export const EARLIER_RUN: RunView = runView(EARLIER_RUN_ID, '2025-12-01T16:10:00Z', { cells: 2, devices: 704, instances: 76, parseErrors: 0, errors: 2, warnings: 3, infos: 2, elapsedMs: 4100 });
 
+/** A run still being checked, three cells of eight done. */
+export const RUNNING_RUN: RunView = {
+  ...EARLIER_RUN,
+  id: '7f000000-0000-4000-8000-000000000002',
+  state: 'running',
+  summary: null,
+  finishedAt: null,
+  progress: { stage: 'checking', done: 3, total: 8, label: 'Checking cells', updatedAt: '2025-12-02T10:00:01Z' },
+  createdAt: '2025-12-02T10:00:00Z',
+};
+
 /** Answers a findings query as the server does (shared/api/runs.ts findingsQuerySchema), over `all`. */
 export function findingsEndpoint(all: StoredFinding[] = FINDINGS): Handler {
   return ({ url }) => {

@@ -8,9 +8,9 @@ import { screen, waitFor, within } from '@testing-library/react';
 import userEvent from '@testing-library/user-event';
 import { describe, expect, it, vi } from 'vitest';
 import type { DeckDetail } from '../../shared/api/decks';
-import { createRunFieldsSchema, type RunView } from '../../shared/api/runs';
+import { createRunFieldsSchema } from '../../shared/api/runs';
 import { blocks, users } from './fixtures';
-import { EARLIER_RUN, EARLIER_RUN_ID, FINDINGS, RUN, RUN_ID, runRoutes } from './runs-fixtures';
+import { EARLIER_RUN, EARLIER_RUN_ID, FINDINGS, RUN, RUN_ID, RUNNING_RUN as running, runRoutes } from './runs-fixtures';
 import { apiError, fakeApi, json, renderApp, sessionRoutes } from './support';
 
 vi.mock('../../src/features/editor', () => ({ NetlistEditor: () => <div data-testid="netlist-editor" /> }));
@@ -43,16 +43,6 @@ const DECK: DeckDetail = {
     publishedAt: v === 4 ? null : '2025-11-02T10:00:00Z',
     isDeckDefault: v === 3,
   })),
-};
-
-const running: RunView = {
-  ...EARLIER_RUN,
-  id: '7f000000-0000-4000-8000-000000000002',
-  state: 'running',
-  summary: null,
-  finishedAt: null,
-  progress: { stage: 'checking', done: 3, total: 8, label: 'Checking cells', updatedAt: '2025-12-02T10:00:01Z' },
-  createdAt: '2025-12-02T10:00:00Z',
 };
 
 describe('block page', () => {
