@@ -2,7 +2,7 @@
 
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
-import { channelCurrent, forwardCurrent, thresholdVoltage, type MosModel } from '../../rules/electrical/mos';
+import { channelCurrent, channelCurrentAt, channelCurrentSlopesAt, forwardCurrent, thresholdVoltage, type MosModel } from '../../rules/electrical/mos';
 import { analyseTransfer, type StageCircuit } from '../../rules/electrical/transfer';
 import { resolveModel } from '../../rules/electrical/parameters';
 import { mosCard } from '../support/cell-builder';
@@ -195,17 +195,21 @@ describe('currents read by node index (the network solver’s unboxed path)', ()
   const device = fc.record({ pChannel: fc.boolean(), saturated: fc.boolean(), gamma: fc.double({ min: 0, max: 0.8, noNaN: true }) });
   const modelOf = (d: { pChannel: boolean; saturated: boolean; gamma: number }): MosModel => ({ ...(d.pChannel ? p : n), gamma: d.gamma, lambda: 0.07, kind: d.saturated ? 'velocity-saturated' : 'square-law' });
 
-  it('channelCurrentAt is forwardCurrent of the source end, with the sign of the current from a to b', async () => {
-    const { channelCurrentAt } = await import('../../rules/electrical/mos');
+  /** The n-equivalent source-end voltages, and the sign that turns a source-to-drain magnitude into the current from a to b. */
+  function sourceEnd(pChannel: boolean, va: number, vb: number, vg: number, vbulk: number) {
+    const mirror = pChannel ? -1 : 1;
+    const [xa, xb] = [mirror * va, mirror * vb];
+    const sourceIsB = xa >= xb;
+    const vs = sourceIsB ? xb : xa;
+    return { vgs: mirror * vg - vs, vds: Math.abs(xa - xb), vsb: vs - mirror * vbulk, sign: sourceIsB ? mirror : -mirror };
+  }
+
+  it('channelCurrentAt is forwardCurrent of the source end, with the sign of the current from a to b', () => {
     fc.assert(
       fc.property(volts, volts, volts, volts, device, (va, vb, vg, vbulk, d) => {
         const m = modelOf(d);
-        const s = d.pChannel ? -1 : 1;
-        const [xa, xb, xg, xbulk] = [s * va, s * vb, s * vg, s * vbulk];
-        const sourceIsB = xa >= xb;
-        const vsrc = sourceIsB ? xb : xa;
-        const magnitude = forwardCurrent(m, 2e-4, xg - vsrc, Math.abs(xa - xb), vsrc - xbulk);
-        const want = s * (sourceIsB ? magnitude : -magnitude);
+        const end = sourceEnd(d.pChannel, va, vb, vg, vbulk);
+        const want = end.sign * forwardCurrent(m, 2e-4, end.vgs, end.vds, end.vsb);
         const got = channelCurrentAt(m, 2e-4, new Float64Array([va, vb, vg, vbulk]), 0, 1, 2, 3);
         return Math.abs(got - want) <= 1e-12 * Math.max(1e-9, Math.abs(want));
       }),
@@ -213,25 +217,20 @@ describe('currents read by node index (the network solver’s unboxed path)', ()
     );
   });
 
-  it('channelCurrentSlopesAt gives the current and its derivatives in Va and Vb, as central differences measure them', async () => {
-    const { channelCurrentAt, channelCurrentSlopesAt } = await import('../../rules/electrical/mos');
+  it('channelCurrentSlopesAt gives the current and its derivatives in Va and Vb, as central differences measure them', () => {
     const h = 1e-6;
     fc.assert(
       fc.property(volts, volts, volts, volts, device, (va, vb, vg, vbulk, d) => {
         const m = modelOf(d);
-        const v = new Float64Array([va, vb, vg, vbulk]);
         const current = (x: number, y: number) => channelCurrentAt(m, 2e-4, new Float64Array([x, y, vg, vbulk]), 0, 1, 2, 3);
         // The model has kinks (threshold, saturation edge, source/drain swap, the body-effect clamp) where a one-sided
         // slope is right and a central difference is not: sample away from them.
-        const s = d.pChannel ? -1 : 1;
-        const [xa, xb, xg, xbulk] = [s * va, s * vb, s * vg, s * vbulk];
-        const src = Math.min(xa, xb);
-        const vgt = xg - src - (m.vt0 + m.gamma * (Math.sqrt(Math.max(m.phi2F + src - xbulk, 0)) - Math.sqrt(m.phi2F)));
-        const vds = Math.abs(xa - xb);
-        const nearKink = Math.abs(vgt) < 1e-3 || Math.abs(vds - vgt) < 1e-3 || vds < 1e-3 || Math.abs(m.phi2F + src - xbulk) < 1e-3 || (d.saturated && (Math.abs(vds - m.vdsat) < 1e-3 || Math.abs(vgt - m.vdsat) < 1e-3));
-        fc.pre(!nearKink);
+        const { vgs, vds, vsb } = sourceEnd(d.pChannel, va, vb, vg, vbulk);
+        const vgt = vgs - thresholdVoltage(m, vsb);
+        const near = (x: number, y: number) => Math.abs(x - y) < 1e-3;
+        fc.pre(!(near(vgt, 0) || near(vds, vgt) || near(vds, 0) || near(m.phi2F + vsb, 0) || (d.saturated && (near(vds, m.vdsat) || near(vgt, m.vdsat)))));
         const out = new Float64Array(3);
-        channelCurrentSlopesAt(m, 2e-4, v, 0, 1, 2, 3, out);
+        channelCurrentSlopesAt(m, 2e-4, new Float64Array([va, vb, vg, vbulk]), 0, 1, 2, 3, out);
         const dA = (current(va + h, vb) - current(va - h, vb)) / (2 * h);
         const dB = (current(va, vb + h) - current(va, vb - h)) / (2 * h);
         const close = (x: number, y: number) => Math.abs(x - y) <= 1e-6 * Math.max(1e-6, Math.abs(y));
