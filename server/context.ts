@@ -37,6 +37,18 @@ export function createRedis(config: Pick<Config, 'redisUrl'>): Redis {
   return redis;
 }
 
+/** The mail outbox over the database (not started: `start()` delivers in the background). */
+export function createOutbox(config: Config, sequelize: Sequelize): Outbox {
+  return new Outbox({
+    sequelize,
+    transport: createMailTransport(config),
+    from: config.mailFrom,
+    maxAttempts: config.mailMaxAttempts,
+    retrySeconds: config.mailRetrySeconds,
+    onError: (err) => console.error('outbox:', err instanceof Error ? err.message : err),
+  });
+}
+
 export function createContext(config: Config, options: { startOutbox?: boolean } = {}): AppContext {
   const sequelize = createSequelize(config);
   initModels(sequelize);
@@ -46,14 +58,7 @@ export function createContext(config: Config, options: { startOutbox?: boolean }
   });
   const redis = createRedis(config);
   const lucia = createLucia(pool, config);
-  const outbox = new Outbox({
-    sequelize,
-    transport: createMailTransport(config),
-    from: config.mailFrom,
-    maxAttempts: config.mailMaxAttempts,
-    retrySeconds: config.mailRetrySeconds,
-    onError: (err) => console.error('outbox:', err instanceof Error ? err.message : err),
-  });
+  const outbox = createOutbox(config, sequelize);
   if (options.startOutbox ?? true) outbox.start();
 
   return {

@@ -14,6 +14,7 @@ import { initModels } from '../db/models';
 import { runMigrations } from '../db/migrate';
 import { createSequelize } from '../db/sequelize';
 import { demoSignInText, seedDemo } from '../seed/demo';
+import { seedDemoWaiversWhenReady } from '../seed/demo-waivers';
 import { startServices } from './services';
 
 const bin = (name: string) => path.join(repoRoot, 'node_modules', '.bin', name);
@@ -60,9 +61,11 @@ async function main(argv: string[]): Promise<number> {
       const seeded = await seedDemo(sequelize);
       say(seeded.created.length ? `demo data: created ${seeded.created.length} records` : 'demo data present');
     }
-  } finally {
+  } catch (err) {
     await sequelize.close();
+    throw err;
   }
+  // Kept open for the demo waivers, made once the worker has finished the demo runs (below).
 
   const hasClient = fs.existsSync(path.join(repoRoot, 'index.html'));
   if (!dev) {
@@ -121,6 +124,9 @@ async function main(argv: string[]): Promise<number> {
   process.stdout.write(`\nKeepwell is running at ${openUrl}\n\n${demoSignInText(openUrl)}\n\n`);
   process.stdout.write('Mail sent in development is captured, not delivered: see the admin outbox or .data/mail/.\n');
   process.stdout.write('Findings support design review; they never replace the foundry\u2019s rules or the team\u2019s sign-off.\n\n');
+  // The demo's waivers need findings: made in the background once the worker has finished the demo runs.
+  if (config.isProduction) await sequelize.close();
+  else void seedDemoWaiversWhenReady(config, sequelize, say).finally(() => sequelize.close());
 
   await Promise.all(children.map((c) => new Promise((r) => (c.exitCode !== null ? r(null) : c.on('exit', r)))));
   return Number(process.exitCode ?? 0);

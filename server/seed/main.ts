@@ -6,6 +6,7 @@ import { initModels } from '../db/models';
 import { createSequelize } from '../db/sequelize';
 import { demoSignInText, seedDemo } from './demo';
 import { drainWithWorker } from './demo-runs';
+import { seedDemoWaiversWhenReady } from './demo-waivers';
 
 async function main(): Promise<number> {
   const config = getConfig();
@@ -26,6 +27,7 @@ async function main(): Promise<number> {
       const code = await drainWithWorker();
       if (code !== 0) process.stderr.write(`seed: the worker exited with code ${code}; the runs stay queued for the next worker\n`);
     }
+    await seedDemoWaiversWhenReady(config, sequelize, (line) => process.stdout.write(`seed: ${line}\n`), 0);
     process.stdout.write(demoSignInText(config.publicUrl) + '\n');
     return 0;
   } finally {

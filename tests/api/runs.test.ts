@@ -18,8 +18,9 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { readDesign } from '../../grammar/index';
 import { checkDesign } from '../../rules/engine';
 import { defaultDeck } from '../../rules/default-deck';
-import { Block, RuleDeckVersion, Team, User, Waiver } from '../../server/db/models';
+import { Block, MailMessage, RuleDeckVersion, Team, User, Waiver } from '../../server/db/models';
 import { DEMO_TEAM, DEMO_USERS, seedDemo } from '../../server/seed/demo';
+import { DEMO_WAIVERS, seedDemoWaivers } from '../../server/seed/demo-waivers';
 import { createTeam, signIn, signedInAs, startTestEnv, type TestEnv } from './helpers';
 import { makeRunTeamSetup, nandBlock, startWorker, submitUpload, waitForRun, type WorkerProcess } from './runs-helpers';
 
@@ -439,5 +440,30 @@ describe('the demo seed', () => {
     let total = 0;
     for (const item of listed.items) total += (await agent.get(`/api/runs/${item.id}/findings`).query({ severity: 'error' }).expect(200)).body.total;
     expect(total).toBeGreaterThan(0);
+
+    // Both ends of the waiver flow, on findings of the finished runs: a reviewer's waiver with a bound and an
+    // expiry, and a designer's request waiting for a reviewer (whose mail is queued).
+    const made = await seedDemoWaivers(env.ctx, new Date('2026-12-02T09:00:00Z'));
+    expect(made).toHaveLength(DEMO_WAIVERS.length);
+    expect(await seedDemoWaivers(env.ctx)).toEqual([]); // idempotent
+    const waivers = await Waiver.findAll({ where: { teamId: team.id }, order: [['createdAt', 'asc']] });
+    expect(waivers.map((w) => [w.ruleId, w.cell, w.state, w.scope])).toEqual([
+      ['chain.non-restoring', 'lsc_obsmux', 'approved', 'finding'],
+      ['dynamic.keeper-ratio', 'lantern_alu_slice', 'requested', 'finding'],
+    ]);
+    expect(waivers[0].bound).toEqual({ value: 4, unit: 'count', sense: 'max' });
+    expect(waivers[0].expiresAt?.toISOString()).toBe('2027-06-01T00:00:00.000Z'); // 180 days on, to the end of that day
+    const reviewer = DEMO_USERS.find((u) => u.roles.includes('reviewer'))!;
+    const mails = await MailMessage.findAll({ where: { teamId: team.id, subject: 'Keepwell: waiver requested for dynamic.keeper-ratio in lantern_alu_slice' } });
+    expect(mails.map((m) => m.to)).toEqual([reviewer.email]);
+    const statusOf = async (ruleId: string, cell: string) => {
+      for (const item of listed.items) {
+        const page = (await agent.get(`/api/runs/${item.id}/findings`).query({ rule: ruleId, cell }).expect(200)).body;
+        if (page.total) return page.items.map((f: { status: string }) => f.status);
+      }
+      return [];
+    };
+    expect(await statusOf('chain.non-restoring', 'lsc_obsmux')).toEqual(['waived']);
+    expect(await statusOf('dynamic.keeper-ratio', 'lantern_alu_slice')).toEqual(['waiver-requested']);
   });
 });
