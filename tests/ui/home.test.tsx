@@ -1,12 +1,14 @@
 // The overview page against a fake API: the team's newest runs across its blocks, each linking
 // to its run page with its counts, a running one with its progress (WAI-ARIA 1.2 progressbar),
-// and the empty state when nothing has been submitted yet.
+// the empty state when nothing has been submitted yet, and the waiver requests waiting for a
+// decision (all of them for a reviewer, the user's own for a designer).
 
-import { screen, within } from '@testing-library/react';
+import { screen, waitFor, within } from '@testing-library/react';
 import { describe, expect, it } from 'vitest';
 import { blocks, users } from './fixtures';
 import { EARLIER_RUN, RUN, RUNNING_RUN as running } from './runs-fixtures';
 import { fakeApi, json, renderApp, sessionRoutes } from './support';
+import { WAIVER_ID, waiver } from './waivers-fixtures';
 
 describe('overview', () => {
   it('lists the newest runs of the team with their counts and progress, linking to each run', async () => {
@@ -41,5 +43,43 @@ describe('overview', () => {
     });
     renderApp('/');
     expect(await screen.findByText('No runs yet')).toBeInTheDocument();
+  });
+
+  const pendingRoutes = (items: ReturnType<typeof waiver>[]) => ({
+    'GET /api/blocks': () => json(200, { items: blocks }),
+    'GET /api/runs': () => json(200, { items: [RUN], total: 1, page: 1, pageSize: 8 }),
+    'GET /api/waivers': () => json(200, { items, total: items.length, page: 1, pageSize: 50 }),
+  });
+
+  it('shows a reviewer the waiver requests waiting for a decision, each linking to its page', async () => {
+    const api = fakeApi({ ...sessionRoutes(users.reviewer), ...pendingRoutes([waiver()]) });
+    renderApp('/');
+    const list = await screen.findByRole('list', { name: 'Waiver requests to decide' });
+    const [item] = within(list).getAllByRole('listitem');
+    expect(within(item).getByRole('link')).toHaveAttribute('href', `/waivers/${WAIVER_ID}`);
+    expect(item).toHaveTextContent('dynamic.keeper-ratio in lk_dom_and2');
+    expect(item).toHaveTextContent(`asked by ${users.designer.name}`);
+    expect(screen.getByRole('link', { name: 'All pending (1)' })).toHaveAttribute('href', '/waivers?standing=pending');
+    // Every pending request of the team, not only the reviewer's own.
+    const query = new URLSearchParams(api.callsTo('GET /api/waivers')[0].search);
+    expect(query.get('standing')).toBe('pending');
+    expect(query.get('mine')).toBeNull();
+  });
+
+  it('shows a designer only their own pending requests, and nothing when none wait', async () => {
+    const api = fakeApi({ ...sessionRoutes(users.designer), ...pendingRoutes([waiver()]) });
+    const { unmount } = renderApp('/');
+    const list = await screen.findByRole('list', { name: 'Your pending waiver requests' });
+    expect(within(list).getAllByRole('listitem')).toHaveLength(1);
+    expect(list).not.toHaveTextContent('asked by');
+    expect(new URLSearchParams(api.callsTo('GET /api/waivers')[0].search).get('mine')).toBe('true');
+    unmount();
+
+    fakeApi({ ...sessionRoutes(users.designer), ...pendingRoutes([]) });
+    const { queryClient } = renderApp('/');
+    await screen.findByRole('list', { name: 'Recent runs' });
+    // Judged once the empty answer has arrived, not before.
+    await waitFor(() => expect(queryClient.getQueryState(['waivers', 'list', { standing: ['pending'], mine: true, page: 1 }])?.status).toBe('success'));
+    expect(screen.queryByRole('heading', { name: 'Your waiver requests' })).not.toBeInTheDocument();
   });
 });

@@ -8,51 +8,17 @@
 import { screen, waitFor, within } from '@testing-library/react';
 import userEvent from '@testing-library/user-event';
 import { describe, expect, it, vi } from 'vitest';
-import { createWaiverBodySchema, decideWaiverBodySchema, rejectWaiverBodySchema, type WaiverDetail, type WaiverView } from '../../shared/api/waivers';
+import { createWaiverBodySchema, decideWaiverBodySchema, rejectWaiverBodySchema, type WaiverView } from '../../shared/api/waivers';
 import type { User } from '../../shared/api/auth';
 import type { NetlistEditorProps } from '../../src/features/editor';
 import { users } from './fixtures';
 import { FINDINGS, RUN_ID, runRoutes } from './runs-fixtures';
 import { fakeApi, json, renderApp, sessionRoutes, type Handler } from './support';
+import { WAIVER_ID, waiver } from './waivers-fixtures';
 
 vi.mock('../../src/features/editor', () => ({
   NetlistEditor: (props: NetlistEditorProps) => <div data-testid="netlist-editor">{props.value.split('\n').length} lines</div>,
 }));
-
-const WAIVER_ID = 'e1000000-0000-4000-8000-000000000001';
-
-function waiver(over: Partial<WaiverDetail> = {}): WaiverDetail {
-  return {
-    id: WAIVER_ID,
-    scope: 'finding',
-    state: 'requested',
-    standing: 'pending',
-    ruleId: 'dynamic.keeper-ratio',
-    cell: 'lk_dom_and2',
-    fingerprint: 'fp-1',
-    block: { id: '0c000000-0000-4000-8000-000000000001', name: 'tag-compare' },
-    severity: 'warning',
-    message: 'Keeper ratio 0.08 below 0.10.',
-    devices: ['Mkeep'],
-    nets: ['dyn'],
-    measured: { value: 0.08, unit: 'ratio' },
-    bound: null,
-    justification: 'The keeper is sized for the slow corner only; the evaluate window is short.',
-    requester: { id: users.designer.id, name: users.designer.name, email: users.designer.email },
-    decider: null,
-    decisionComment: null,
-    decidedAt: null,
-    expiresAt: null,
-    revoker: null,
-    revokedAt: null,
-    revokeReason: null,
-    source: { runId: RUN_ID, findingId: 103 },
-    createdAt: '2026-11-20T09:00:00.000Z',
-    updatedAt: '2026-11-20T09:00:00.000Z',
-    history: [{ action: 'waiver.request', actor: { id: users.designer.id, name: users.designer.name, email: users.designer.email }, at: '2026-11-20T09:00:00.000Z', detail: {} }],
-    ...over,
-  };
-}
 
 function runPage(user: User, finding: number, extra: Record<string, Handler> = {}) {
   const api = fakeApi({

@@ -11,6 +11,7 @@ import { useCan, useCurrentUser } from '../../lib/session';
 import { blocksQuery } from '../blocks/queries';
 import { isFinished, recentRunsQuery } from '../runs/queries';
 import { RunProgressBar, RunStateBadge, SeverityCounts } from '../runs/RunState';
+import { waiverListQuery } from '../waivers/queries';
 
 const RECENT_BLOCKS = 6;
 const RECENT_RUNS = 8;
@@ -60,11 +61,62 @@ function RecentRuns() {
   );
 }
 
+const PENDING_SHOWN = 5;
+
+/**
+ * Waiver requests waiting for a decision: every pending one for a reviewer, the user's own for a designer. Shown only
+ * while there are some, so that the overview says what needs a look.
+ */
+function PendingWaivers({ mine }: { mine: boolean }) {
+  const pending = useQuery(waiverListQuery({ standing: ['pending'], mine, page: 1 }));
+  if (!pending.data || pending.data.total === 0) return null;
+  const { items, total } = pending.data;
+  const href = `/waivers?standing=pending${mine ? '&mine=true' : ''}`;
+  return (
+    <Section
+      title={mine ? 'Your waiver requests' : 'Waiver requests to decide'}
+      description={mine ? 'Asked for and still waiting for a reviewer.' : 'Designers are waiting for a reviewer’s decision on these.'}
+      actions={
+        <Link to={href} className="whitespace-nowrap text-sm font-medium text-well-700 hover:underline">
+          All pending ({total})
+        </Link>
+      }
+    >
+      <Panel>
+        <ul className="divide-y divide-ink-100" aria-label={mine ? 'Your pending waiver requests' : 'Waiver requests to decide'}>
+          {items.slice(0, PENDING_SHOWN).map((w) => (
+            <li key={w.id}>
+              <Link to={`/waivers/${w.id}`} className="block px-4 py-3 hover:bg-ink-50">
+                <span className="block truncate text-sm">
+                  <span className="font-mono font-medium text-well-800">{w.ruleId}</span>
+                  {w.cell && (
+                    <>
+                      {' in '}
+                      <span className="font-mono">{w.cell}</span>
+                    </>
+                  )}
+                </span>
+                <span className="block truncate text-xs text-ink-500">
+                  {w.block ? `${w.block.name} · ` : ''}
+                  {!mine && w.requester ? `asked by ${w.requester.name}, ` : ''}
+                  {formatDate(w.createdAt)}
+                </span>
+              </Link>
+            </li>
+          ))}
+        </ul>
+      </Panel>
+    </Section>
+  );
+}
+
 export function HomePage() {
   useDocumentTitle('Overview');
   const user = useCurrentUser();
   const blocks = useQuery(blocksQuery);
   const canCreate = useCan('block.create');
+  const canDecide = useCan('waiver.decide');
+  const canRequest = useCan('waiver.request');
   const recent = blocks.data ? [...blocks.data].sort((a, b) => b.createdAt.localeCompare(a.createdAt)).slice(0, RECENT_BLOCKS) : [];
 
   return (
@@ -74,52 +126,55 @@ export function HomePage() {
         <Section title="Recent runs" description="The latest check runs of every block of your team.">
           <RecentRuns />
         </Section>
-        <Section
-          title="Blocks"
-          actions={
-            blocks.data && blocks.data.length > 0 ? (
-              <Link to="/blocks" className="text-sm font-medium text-well-700 hover:underline">
-                All blocks ({blocks.data.length})
-              </Link>
-            ) : undefined
-          }
-        >
-          {blocks.isPending && <Loading label="Loading blocks…" />}
-          {blocks.isError && <ErrorNotice error={blocks.error} title="Could not load the blocks" />}
-          {blocks.data && recent.length === 0 && (
-            <EmptyState
-              compact
-              title="No blocks yet"
-              illustration="list"
-              action={
-                canCreate ? (
-                  <ButtonLink to="/blocks" variant="primary">
-                    Go to blocks
-                  </ButtonLink>
-                ) : undefined
-              }
-            >
-              {canCreate ? 'Create your team’s first block on the Blocks page; its runs will then show up here.' : 'A designer or methodology owner creates blocks; they will be listed here.'}
-            </EmptyState>
-          )}
-          {recent.length > 0 && (
-            <Panel>
-              <ul className="divide-y divide-ink-100">
-                {recent.map((b) => (
-                  <li key={b.id}>
-                    <Link to={`/blocks/${b.id}`} className="flex items-baseline justify-between gap-4 px-4 py-3 hover:bg-ink-50">
-                      <span className="min-w-0">
-                        <span className="block truncate font-mono text-sm font-medium text-well-800">{b.name}</span>
-                        {b.description && <span className="block truncate text-sm text-ink-500">{b.description}</span>}
-                      </span>
-                      <span className="shrink-0 text-xs tabular-nums text-ink-500">{formatDate(b.createdAt)}</span>
-                    </Link>
-                  </li>
-                ))}
-              </ul>
-            </Panel>
-          )}
-        </Section>
+        <div>
+          {(canDecide || canRequest) && <PendingWaivers mine={!canDecide} />}
+          <Section
+            title="Blocks"
+            actions={
+              blocks.data && blocks.data.length > 0 ? (
+                <Link to="/blocks" className="text-sm font-medium text-well-700 hover:underline">
+                  All blocks ({blocks.data.length})
+                </Link>
+              ) : undefined
+            }
+          >
+            {blocks.isPending && <Loading label="Loading blocks…" />}
+            {blocks.isError && <ErrorNotice error={blocks.error} title="Could not load the blocks" />}
+            {blocks.data && recent.length === 0 && (
+              <EmptyState
+                compact
+                title="No blocks yet"
+                illustration="list"
+                action={
+                  canCreate ? (
+                    <ButtonLink to="/blocks" variant="primary">
+                      Go to blocks
+                    </ButtonLink>
+                  ) : undefined
+                }
+              >
+                {canCreate ? 'Create your team’s first block on the Blocks page; its runs will then show up here.' : 'A designer or methodology owner creates blocks; they will be listed here.'}
+              </EmptyState>
+            )}
+            {recent.length > 0 && (
+              <Panel>
+                <ul className="divide-y divide-ink-100">
+                  {recent.map((b) => (
+                    <li key={b.id}>
+                      <Link to={`/blocks/${b.id}`} className="flex items-baseline justify-between gap-4 px-4 py-3 hover:bg-ink-50">
+                        <span className="min-w-0">
+                          <span className="block truncate font-mono text-sm font-medium text-well-800">{b.name}</span>
+                          {b.description && <span className="block truncate text-sm text-ink-500">{b.description}</span>}
+                        </span>
+                        <span className="shrink-0 text-xs tabular-nums text-ink-500">{formatDate(b.createdAt)}</span>
+                      </Link>
+                    </li>
+                  ))}
+                </ul>
+              </Panel>
+            )}
+          </Section>
+        </div>
       </div>
     </>
   );
