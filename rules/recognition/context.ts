@@ -275,46 +275,63 @@ const CELL_INDEX_MEMO_KEY = 'recognition.index';
 /** Nets, devices and pins of a context, indexed by net, without extracting its stages. */
 export function netIndex(ctx: CellContext): NetIndex {
   return ctx.memo(NET_INDEX_MEMO_KEY, () => {
-    const cell = ctx.cell;
-    const alias = zeroOhmAlias(cell);
-    const n = cell.nets.length;
-    const railRoot: (RailKind | undefined)[] = new Array(n);
-    for (let i = 0; i < n; i++) if (ctx.rails[i]) railRoot[alias[i]] = ctx.rails[i];
-    const channel = new PairBuffer(cell.mosfets.length * 2);
-    const gates = new PairBuffer(cell.mosfets.length);
-    for (let i = 0; i < cell.mosfets.length; i++) {
-      const m = cell.mosfets[i];
-      channel.push(alias[m.drain], i);
-      channel.push(alias[m.source], i);
-      gates.push(alias[m.gate], i);
-    }
-    const others = new PairBuffer(cell.others.length * 2);
-    for (let i = 0; i < cell.others.length; i++) {
-      const [a, b] = terminalsOf(cell.others[i]);
-      others.push(alias[a], i);
-      if (alias[b] !== alias[a]) others.push(alias[b], i);
-    }
-    const pinInstances = new PairBuffer(cell.instances.length * 4);
-    const pinPorts = new PairBuffer(cell.instances.length * 4);
-    cell.instances.forEach((inst, k) => {
-      inst.pins.forEach((p, j) => {
-        pinInstances.push(alias[p], k);
-        pinPorts.push(alias[p], j);
-      });
-    });
-    const isPort = new Uint8Array(n);
-    for (const p of cell.ports) isPort[alias[p]] = 1;
+    const lists = netListsOf(ctx.cell);
+    const { alias } = lists;
+    const railRoot: (RailKind | undefined)[] = new Array(ctx.cell.nets.length);
+    for (let i = 0; i < ctx.cell.nets.length; i++) if (ctx.rails[i]) railRoot[alias[i]] = ctx.rails[i];
     return {
-      alias,
+      ...lists,
       railOf: (net: number) => (net < 0 ? (net === -1 ? 'power' : 'ground') : railRoot[alias[net]]),
-      channel: channel.lists(n),
-      gates: gates.lists(n),
-      others: others.lists(n),
-      pinInstances: pinInstances.lists(n),
-      pinPorts: pinPorts.lists(n),
-      isPort,
     } satisfies NetIndex;
   });
+}
+
+/** What a net index holds that does not depend on the rails of a context. */
+type CellNetLists = Omit<NetIndex, 'railOf'>;
+
+/** A cell's device and pin lists by net, built once per cell and shared by every context of it (they differ only in rails). */
+const cellNetListsMemo = new WeakMap<Cell, CellNetLists>();
+
+function netListsOf(cell: Cell): CellNetLists {
+  const known = cellNetListsMemo.get(cell);
+  if (known) return known;
+  const alias = zeroOhmAlias(cell);
+  const n = cell.nets.length;
+  const channel = new PairBuffer(cell.mosfets.length * 2);
+  const gates = new PairBuffer(cell.mosfets.length);
+  for (let i = 0; i < cell.mosfets.length; i++) {
+    const m = cell.mosfets[i];
+    channel.push(alias[m.drain], i);
+    channel.push(alias[m.source], i);
+    gates.push(alias[m.gate], i);
+  }
+  const others = new PairBuffer(cell.others.length * 2);
+  for (let i = 0; i < cell.others.length; i++) {
+    const [a, b] = terminalsOf(cell.others[i]);
+    others.push(alias[a], i);
+    if (alias[b] !== alias[a]) others.push(alias[b], i);
+  }
+  const pinInstances = new PairBuffer(cell.instances.length * 4);
+  const pinPorts = new PairBuffer(cell.instances.length * 4);
+  cell.instances.forEach((inst, k) => {
+    inst.pins.forEach((p, j) => {
+      pinInstances.push(alias[p], k);
+      pinPorts.push(alias[p], j);
+    });
+  });
+  const isPort = new Uint8Array(n);
+  for (const p of cell.ports) isPort[alias[p]] = 1;
+  const lists: CellNetLists = {
+    alias,
+    channel: channel.lists(n),
+    gates: gates.lists(n),
+    others: others.lists(n),
+    pinInstances: pinInstances.lists(n),
+    pinPorts: pinPorts.lists(n),
+    isPort,
+  };
+  cellNetListsMemo.set(cell, lists);
+  return lists;
 }
 
 /** Nets, devices, pins and stages of a context, indexed by net. */
