@@ -213,13 +213,25 @@ export function topologicalOrder(design: Design): string[] {
   return post.reverse();
 }
 
-/** Total flattened device count under the roots. */
-export function flattenedDeviceCount(design: Design): number {
-  const counts = instanceCounts(design);
-  let total = 0;
+/** Cells that occur under the roots, parents before children (what a check visits). */
+export function occurringOrder(design: Design, counts: Map<string, number> = instanceCounts(design)): string[] {
+  return topologicalOrder(design).filter((k) => (counts.get(k) ?? 0) > 0);
+}
+
+/** Flattened device and instance totals under the roots. */
+export function flattenedTotals(design: Design, counts: Map<string, number> = instanceCounts(design)): { devices: number; instances: number } {
+  let devices = 0;
+  let instances = 0;
   for (const [key, n] of counts) {
     const cell = design.cells.get(key);
-    if (cell) total += n * (cell.mosfets.length + cell.others.length);
+    if (!cell) continue;
+    devices += n * (cell.mosfets.length + cell.others.length);
+    instances += n * cell.instances.length;
   }
-  return total;
+  return { devices, instances };
+}
+
+/** Total flattened device count under the roots. */
+export function flattenedDeviceCount(design: Design): number {
+  return flattenedTotals(design).devices;
 }

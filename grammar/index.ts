@@ -8,7 +8,7 @@ import { elaborate, type ReadOptions } from './elaborate';
 export type { ReadOptions } from './elaborate';
 export { TOP_LEVEL_CELL } from './elaborate';
 export type * from './design';
-export { instanceCounts, topologicalOrder, flattenedDeviceCount } from './design';
+export { instanceCounts, topologicalOrder, occurringOrder, flattenedTotals, flattenedDeviceCount } from './design';
 export type * from './ast';
 export { parseNetlist, type ParseOptions } from './parser';
 export { netlistLexer, netlistTokens, tokenize, statementChunks, fieldStore, FieldStore } from './lexer';

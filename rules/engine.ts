@@ -6,7 +6,7 @@
 // billions of flattened devices costs what its distinct cells cost.
 
 import type { Cell, Design, RailKind } from '../grammar/design';
-import { instanceCounts, topologicalOrder } from '../grammar/design';
+import { flattenedTotals, instanceCounts, occurringOrder } from '../grammar/design';
 import type { Deck } from '../shared/deck';
 import type { Finding, CheckSummary } from '../shared/findings';
 import { fingerprint } from './fingerprint';
@@ -51,7 +51,7 @@ export function checkDesign(design: Design, deck: Deck, options: CheckOptions = 
   });
 
   const counts = instanceCounts(design);
-  const order = topologicalOrder(design).filter((k) => (counts.get(k) ?? 0) > 0);
+  const order = occurringOrder(design, counts);
   const wanted = options.cells ? new Set(options.cells) : null;
 
   // Port contexts flow from parents to children; every cell's parents come before it in `order`.
@@ -152,14 +152,7 @@ export function checkDesign(design: Design, deck: Deck, options: CheckOptions = 
     findings.push(finding);
   }
 
-  let devices = 0;
-  let instances = 0;
-  for (const [key, n] of counts) {
-    const cell = design.cells.get(key);
-    if (!cell) continue;
-    devices += n * (cell.mosfets.length + cell.others.length);
-    instances += n * cell.instances.length;
-  }
+  const { devices, instances } = flattenedTotals(design, counts);
   return {
     findings,
     summary: {

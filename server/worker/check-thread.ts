@@ -3,7 +3,7 @@
 // thread as messages. Started by threads.ts; one request at a time.
 
 import { parentPort } from 'node:worker_threads';
-import { instanceCounts, readDesign, topologicalOrder, type Design } from '../../grammar/index';
+import { flattenedTotals, instanceCounts, occurringOrder, readDesign, topologicalOrder, type Design } from '../../grammar/index';
 import { checkDesign } from '../../rules/engine';
 import type { RunDiagnostic } from '../../shared/api/runs';
 import { decodeNetlistText } from '../services/uploads-text';
@@ -12,23 +12,6 @@ import type { CheckOutcome, CheckRequest, ThreadMessage } from './check-protocol
 const port = parentPort;
 if (!port) throw new Error('check-thread.ts runs as a worker thread');
 const post = (message: ThreadMessage) => port.postMessage(message);
-
-/** Cells the engine analyses, parents first: every cell that occurs under the roots. */
-function analysedOrder(design: Design, counts: Map<string, number>): string[] {
-  return topologicalOrder(design).filter((k) => (counts.get(k) ?? 0) > 0);
-}
-
-function designCounts(design: Design, counts: Map<string, number>): { devices: number; instances: number } {
-  let devices = 0;
-  let instances = 0;
-  for (const [key, n] of counts) {
-    const cell = design.cells.get(key);
-    if (!cell) continue;
-    devices += n * (cell.mosfets.length + cell.others.length);
-    instances += n * cell.instances.length;
-  }
-  return { devices, instances };
-}
 
 function countsByName(design: Design, counts: Map<string, number>, keys: Iterable<string>): Record<string, number> {
   const out: Record<string, number> = {};
@@ -124,14 +107,14 @@ function handle(request: CheckRequest): CheckOutcome {
   if (unfit) return { kind: 'invalid', diagnostics: [...diagnostics, unfit] };
 
   const counts = instanceCounts(design);
-  const order = analysedOrder(design, counts);
+  const order = occurringOrder(design, counts);
   if (request.kind === 'plan' && order.length >= request.splitMinCells) {
     const parts: string[][] = [];
     for (let i = 0; i < order.length; i += request.cellsPerPart) parts.push(order.slice(i, i + request.cellsPerPart));
     return {
       kind: 'split',
       parts,
-      summary: { cells: order.length, ...designCounts(design, counts), parseErrors: 0, errors: 0, warnings: 0, infos: 0 },
+      summary: { cells: order.length, ...flattenedTotals(design, counts), parseErrors: 0, errors: 0, warnings: 0, infos: 0 },
       diagnostics,
     };
   }
