@@ -9,13 +9,12 @@ import { readFileSync, writeFileSync } from 'node:fs';
 import { resolve } from 'node:path';
 import { pathToFileURL } from 'node:url';
 import type { Design, Diagnostic } from '../../grammar/design';
-import { readDesign } from '../../grammar/index';
 import { checkDesign } from '../../rules/engine';
 import { buildSarif } from '../../rules/sarif';
 import { formatSi } from '../../rules/units';
 import type { Deck } from '../../shared/deck';
 import { checkReportSchema, REVIEW_CAUTION, type CheckReport, type Finding } from '../../shared/findings';
-import { InputError, loadDeck, loadFiles, parseCommandLine, parseScale, readOptions, workingDirectory, type LoadedFiles } from './inputs';
+import { InputError, parseCommandLine, readCommandLineDesign, workingDirectory, type CommandLineDesign } from './inputs';
 
 export { loadFiles } from './inputs';
 
@@ -80,10 +79,6 @@ function toolVersion(): string {
   }
 }
 
-function formatDiagnostic(d: Diagnostic, file: string): string {
-  return `${file}:${d.line}:${d.column}: ${d.severity}: ${d.message}${d.hint ? `\n  hint: ${d.hint}` : ''}`;
-}
-
 function plural(n: number, word: string): string {
   return `${n} ${word}${n === 1 ? '' : 's'}`;
 }
@@ -139,13 +134,9 @@ export async function run(args: string[]): Promise<number> {
     return 2;
   }
   const started = performance.now();
-  let deck: Deck;
-  let loaded: LoadedFiles;
-  let scale: number | undefined;
+  let input: CommandLineDesign;
   try {
-    scale = parseScale(values.scale);
-    deck = loadDeck(values.deck);
-    loaded = loadFiles(positionals);
+    input = readCommandLineDesign(values, positionals);
   } catch (e) {
     if (e instanceof InputError) {
       process.stderr.write(`keepwell check: ${e.message}\n`);
@@ -153,10 +144,7 @@ export async function run(args: string[]): Promise<number> {
     }
     throw e;
   }
-
-  const design = readDesign(loaded.files, readOptions(loaded, deck, { top: values.top, scale }));
-  const shown = (file: string) => loaded.display.get(file) ?? file;
-  for (const d of design.diagnostics) process.stderr.write(formatDiagnostic(d, shown(d.file)) + '\n');
+  const { deck, design, shown } = input;
   const parseErrors = design.diagnostics.filter((d) => d.severity === 'error').length;
 
   const result = checkDesign(design, deck);

@@ -4,8 +4,8 @@
 import { readFileSync, statSync } from 'node:fs';
 import { dirname, isAbsolute, relative, resolve, sep } from 'node:path';
 import { parseArgs, type ParseArgsConfig } from 'node:util';
-import type { ReadOptions } from '../../grammar/index';
-import { includeReferences, parseSpiceNumber } from '../../grammar/index';
+import type { Design, Diagnostic, ReadOptions } from '../../grammar/index';
+import { includeReferences, parseSpiceNumber, readDesign } from '../../grammar/index';
 import { defaultDeck } from '../../rules/default-deck';
 import { validateDeck } from '../../rules/validate-deck';
 import type { Deck } from '../../shared/deck';
@@ -167,4 +167,30 @@ export function readOptions(loaded: LoadedFiles, deck: Deck, extra: { top?: stri
     deviceMap: deck.deviceMap,
     supplies: deck.supplies,
   };
+}
+
+/** A design read from the command line's files under its deck, with the path to show for each file key. */
+export interface CommandLineDesign {
+  deck: Deck;
+  loaded: LoadedFiles;
+  design: Design;
+  shown: (file: string) => string;
+}
+
+/**
+ * Read the deck (`--deck`), the netlist files and `--scale`, then the design; its diagnostics go to standard error as
+ * `file:line:column: severity: message`. Throws InputError when an input cannot be read.
+ */
+export function readCommandLineDesign(values: { deck?: string; scale?: string; top?: string }, paths: string[]): CommandLineDesign {
+  const scale = parseScale(values.scale);
+  const deck = loadDeck(values.deck);
+  const loaded = loadFiles(paths);
+  const design = readDesign(loaded.files, readOptions(loaded, deck, { top: values.top, scale }));
+  const shown = (file: string) => loaded.display.get(file) ?? file;
+  for (const d of design.diagnostics) process.stderr.write(formatDiagnostic(d, shown(d.file)) + '\n');
+  return { deck, loaded, design, shown };
+}
+
+export function formatDiagnostic(d: Diagnostic, file: string): string {
+  return `${file}:${d.line}:${d.column}: ${d.severity}: ${d.message}${d.hint ? `\n  hint: ${d.hint}` : ''}`;
 }

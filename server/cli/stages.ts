@@ -6,14 +6,13 @@
 // The cells are walked by the rule engine, so rails reach a cell from its parents
 // exactly as in `keepwell check`.
 
-import { readDesign } from '../../grammar/index';
 import { checkDesign } from '../../rules/engine';
 import { stageAnalysesOf, stageRows, type StageRow } from '../../rules/stages';
 import { defineRule, type RuleModule } from '../../rules/types';
 import type { Deck } from '../../shared/deck';
 import { REVIEW_CAUTION } from '../../shared/findings';
 import { z } from 'zod';
-import { InputError, loadDeck, loadFiles, parseCommandLine, parseScale, readOptions, type LoadedFiles } from './inputs';
+import { InputError, parseCommandLine, readCommandLineDesign, type CommandLineDesign } from './inputs';
 
 const USAGE = `usage: keepwell stages FILE… [options]
 
@@ -48,21 +47,14 @@ export async function run(args: string[]): Promise<number> {
   if (!positionals.length) return fail(`no netlist files given\n\n${USAGE}`);
   if ((values.format ?? 'json') !== 'json') return fail(`unknown format "${values.format}" (available: json)`);
 
-  let deck: Deck;
-  let loaded: LoadedFiles;
-  let scale: number | undefined;
+  let input: CommandLineDesign;
   try {
-    scale = parseScale(values.scale);
-    deck = loadDeck(values.deck);
-    loaded = loadFiles(positionals);
+    input = readCommandLineDesign(values, positionals);
   } catch (e) {
     if (e instanceof InputError) return fail(e.message);
     throw e;
   }
-
-  const design = readDesign(loaded.files, readOptions(loaded, deck, { scale }));
-  const shown = (file: string) => loaded.display.get(file) ?? file;
-  for (const d of design.diagnostics) process.stderr.write(`${shown(d.file)}:${d.line}:${d.column}: ${d.severity}: ${d.message}\n`);
+  const { deck, design, shown } = input;
   if (design.diagnostics.some((d) => d.severity === 'error')) return 2;
 
   let cells: string[] | undefined;
