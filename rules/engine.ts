@@ -12,7 +12,7 @@ import type { Finding, CheckSummary } from '../shared/findings';
 import { fingerprint } from './fingerprint';
 import { ruleRegistry } from './registry';
 import type { CellContext, PortSignal, RawFinding, RuleModule } from './types';
-import { adoptChildStages, cellIndex, localRails, localRailsOf } from './recognition/context';
+import { adoptChildStages, cellIndex, localRails, localRailsOf, makeContext } from './recognition/context';
 import { primeClockHint, timingOf, timingSignature } from './recognition/timing';
 
 export { localRails };
@@ -77,24 +77,11 @@ export function checkDesign(design: Design, deck: Deck, options: CheckOptions = 
       });
       const skip = wanted !== null && !wanted.has(key);
       if (skip && cell.instances.length === 0) continue;
-      const memo = new Map<string, unknown>();
-      const ctx: CellContext = {
-        design,
-        cell,
-        deck,
+      const ctx: CellContext = makeContext(design, deck, cell, rails, {
         instances: context.count,
-        rails,
         signals: context.signals.length ? context.signals : undefined,
         root: isRoot,
-        memo<T>(k: string, compute: () => T): T {
-          // One lookup on a hit (memos are read millions of times on a flat netlist); `has` only for a stored undefined.
-          const hit = memo.get(k);
-          if (hit !== undefined || memo.has(k)) return hit as T;
-          const value = compute();
-          memo.set(k, value);
-          return value;
-        },
-      };
+      });
       // Clock tracing comes first: its hint decides how footless dynamic stages are classified, for every rule.
       adoptChildStages(ctx, context.rails.length ? context.rails : cell.ports.map(() => undefined));
       primeClockHint(ctx);

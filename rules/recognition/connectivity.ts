@@ -9,6 +9,7 @@
 
 import type { CellContext } from '../types';
 import { cellIndex, terminalsOf } from './context';
+import { UnionFind } from '../net-groups';
 import { channelPorts } from './region';
 
 export interface Connectivity {
@@ -25,17 +26,9 @@ export function connectivityOf(ctx: CellContext): Connectivity {
     const index = cellIndex(ctx);
     const cell = ctx.cell;
     const n = cell.nets.length;
-    const parent = new Int32Array(n);
-    for (let i = 0; i < n; i++) parent[i] = i;
-    const find = (x: number): number => {
-      while (parent[x] !== x) x = parent[x] = parent[parent[x]];
-      return x;
-    };
-    const union = (a: number, b: number) => {
-      const ra = find(a);
-      const rb = find(b);
-      if (ra !== rb) parent[Math.max(ra, rb)] = Math.min(ra, rb);
-    };
+    const groups = new UnionFind(n);
+    const find = (x: number) => groups.find(x);
+    const union = (a: number, b: number) => groups.union(a, b);
     const alias = index.alias;
     const connected = new Uint8Array(n);
     for (const m of cell.mosfets) {

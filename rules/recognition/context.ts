@@ -11,6 +11,7 @@ import type { Cell, Design, RailKind } from '../../grammar/design';
 import type { Deck } from '../../shared/deck';
 import { globMatcher } from '../../shared/deck';
 import type { CellContext, PortSignal } from '../types';
+import { zeroOhmAlias } from '../net-groups';
 import { stageEnvironment, stagesOf } from '../stages';
 import type { CellStages, Stage, StageEnvironment } from '../stages';
 
@@ -102,7 +103,7 @@ export interface ContextOptions {
   root?: boolean;
 }
 
-/** A context of the engine's shape for a cell the engine is not visiting (a child, a synthetic cell). */
+/** A context for a cell: the one the engine visits, a child looked into, or a synthetic cell. */
 export function makeContext(design: Design, deck: Deck, cell: Cell, rails: (RailKind | undefined)[], options: ContextOptions = {}): CellContext {
   const memo = new Map<string, unknown>();
   return {
@@ -114,6 +115,7 @@ export function makeContext(design: Design, deck: Deck, cell: Cell, rails: (Rail
     signals: options.signals,
     root: options.root,
     memo<T>(k: string, compute: () => T): T {
+      // One lookup on a hit (memos are read millions of times on a flat netlist); `has` only for a stored undefined.
       const hit = memo.get(k);
       if (hit !== undefined || memo.has(k)) return hit as T;
       const value = compute();
@@ -247,26 +249,6 @@ export interface CellIndex extends NetIndex {
   passAt: NetLists;
   /** Stage that owns each MOS device (−1 when none: both ends on rails). */
   stageOfMos: Int32Array;
-}
-
-/** Representatives of nets joined by zero-ohm resistors: the smallest id of each group. */
-function zeroOhmAlias(cell: Cell): Int32Array {
-  const n = cell.nets.length;
-  const parent = new Int32Array(n);
-  for (let i = 0; i < n; i++) parent[i] = i;
-  const find = (x: number): number => {
-    while (parent[x] !== x) x = parent[x] = parent[parent[x]];
-    return x;
-  };
-  for (const o of cell.others) {
-    if (o.kind !== 'res' || o.value !== 0) continue;
-    const a = find(o.a);
-    const b = find(o.b);
-    if (a !== b) parent[Math.max(a, b)] = Math.min(a, b);
-  }
-  const alias = new Int32Array(n);
-  for (let i = 0; i < n; i++) alias[i] = find(i);
-  return alias;
 }
 
 const NET_INDEX_MEMO_KEY = 'recognition.net-index';

@@ -15,31 +15,11 @@
 
 import type { Cell, RailKind, SourceLoc } from '../../grammar/design';
 import type { Network } from '../electrical/network';
+import { UnionFind, zeroOhmAlias } from '../net-groups';
 import { reduceSeriesParallel } from './series-parallel';
 import { classifyStage } from './classify';
 import type { AuxiliaryDevice, CellStages, Stage, StageElement, StageOptions } from './stage';
 import { GROUND_END, POWER_END } from './stage';
-
-class UnionFind {
-  readonly parent: Int32Array;
-  constructor(n: number) {
-    this.parent = new Int32Array(n);
-    for (let i = 0; i < n; i++) this.parent[i] = i;
-  }
-  find(x: number): number {
-    const p = this.parent;
-    while (p[x] !== x) {
-      p[x] = p[p[x]];
-      x = p[x];
-    }
-    return x;
-  }
-  union(a: number, b: number) {
-    const ra = this.find(a);
-    const rb = this.find(b);
-    if (ra !== rb) this.parent[Math.max(ra, rb)] = Math.min(ra, rb);
-  }
-}
 
 const POLARITY_N = 0;
 const POLARITY_P = 1;
@@ -59,10 +39,7 @@ export function extractStages(cell: Cell, rails: readonly (RailKind | undefined)
   const netCount = cell.nets.length;
 
   // Zero-ohm ties are wires.
-  const wires = new UnionFind(netCount);
-  for (const o of cell.others) if (o.kind === 'res' && o.value === 0) wires.union(o.a, o.b);
-  const alias = new Int32Array(netCount);
-  for (let i = 0; i < netCount; i++) alias[i] = wires.find(i);
+  const alias = zeroOhmAlias(cell);
   const railCode = new Uint8Array(netCount);
   for (let i = 0; i < netCount; i++) {
     const r = rails[i];
