@@ -10,12 +10,16 @@ import type { CheckOutcome, CheckRequest, ThreadMessage, ThreadStage } from './c
 const threadEntry = new URL('./check-thread.ts', import.meta.url).href;
 const tsxApi = import.meta.resolve('tsx/esm/api');
 /**
- * Young generation of a check thread (two semi-spaces of 32 MB and V8's matching new large-object space). A check of a
- * big flat netlist makes millions of short-lived objects; V8's default young generation of a few megabytes makes it
- * spend about a quarter of its time in scavenges. The command line (`npm run keepwell`) runs with the same
- * `--max-semi-space-size=32`, and so do the netlist benchmark's children.
+ * Semi-space of the V8 young generation for checks. A check of a big flat netlist makes millions of objects, most of them
+ * kept to the end; with V8's default young generation of a few megabytes it spends about a quarter of its time in
+ * scavenges. Measured on the benchmark's flat million (2 cores): 16 MB 9.6–9.9 s, 32 MB 9.6 s, 64 MB 9.1 s with
+ * 80 MB more peak memory (1.76 GB), 128 MB 9.2–9.5 s and 1.88 GB. The command line (`npm run keepwell`) runs with the
+ * same `--max-semi-space-size`, and so do the netlist benchmark's children.
  */
-export const CHECK_THREAD_YOUNG_GENERATION_MB = 96;
+export const CHECK_SEMI_SPACE_MB = 64;
+
+/** Young generation of a check thread: two semi-spaces and V8's new large-object space of the same size. */
+export const CHECK_THREAD_YOUNG_GENERATION_MB = 3 * CHECK_SEMI_SPACE_MB;
 
 const bootstrap = `import(${JSON.stringify(tsxApi)}).then((tsx) => tsx.tsImport(${JSON.stringify(threadEntry)}, ${JSON.stringify(import.meta.url)}))`;
 

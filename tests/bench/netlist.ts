@@ -271,10 +271,11 @@ async function childMain(kind: CaseName, file: string): Promise<void> {
 async function runChild(kind: CaseName, file: string): Promise<CaseResult> {
   const { spawn } = await import('node:child_process');
   const { fileURLToPath } = await import('node:url');
+  const { CHECK_SEMI_SPACE_MB } = await import('../../server/worker/threads');
   const self = fileURLToPath(import.meta.url);
   return new Promise((resolvePromise, reject) => {
-    // The V8 young-generation size the worker's check threads and the command line use (server/worker/threads.ts).
-    const child = spawn(process.execPath, ['--max-semi-space-size=32', '--import', 'tsx', self, '--child', kind, file], { stdio: ['ignore', 'pipe', 'inherit'] });
+    // The V8 young-generation size the worker's check threads and the command line use.
+    const child = spawn(process.execPath, [`--max-semi-space-size=${CHECK_SEMI_SPACE_MB}`, '--import', 'tsx', self, '--child', kind, file], { stdio: ['ignore', 'pipe', 'inherit'] });
     let out = '';
     child.stdout.on('data', (d: Buffer) => (out += d.toString()));
     child.on('error', reject);

@@ -11,6 +11,7 @@ import Ajv from 'ajv';
 import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
 import { z } from 'zod';
 import { reportFormats, run } from '../../server/cli/check';
+import { CHECK_SEMI_SPACE_MB } from '../../server/worker/threads';
 import { defaultDeck } from '../../rules/default-deck';
 import { checkReportSchema, REVIEW_CAUTION } from '../../shared/findings';
 
@@ -180,5 +181,10 @@ describe('keepwell check', () => {
     expect(bad.stdout).toContain('device.implausible-size');
     const good = spawnSync(tsx, [cli, 'check', file, '--scale', '1u', '--deck', sizeOnlyDeck], { encoding: 'utf8', timeout: 60_000 });
     expect(good.status).toBe(0);
+  });
+
+  it('runs with the young-generation size of the worker\'s check threads', () => {
+    const scripts = JSON.parse(readFileSync(join(import.meta.dirname, '../../package.json'), 'utf8')).scripts as Record<string, string>;
+    expect(scripts.keepwell).toContain(`--max-semi-space-size=${CHECK_SEMI_SPACE_MB} `);
   });
 });
