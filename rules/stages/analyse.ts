@@ -362,8 +362,9 @@ class SignatureEncoder extends NumberKey {
   /** Internal nodes by first use: `local[0 … localCount − 1]` (a count, not an array length, which costs a call to reset). */
   private local = new Int32Array(64);
   private localCount = 0;
-  private env!: StageEnvironment;
-  private stage!: Stage;
+  /** The stage being encoded and its environment, only while `encode` runs: the encoder outlives every check, the design must not. */
+  private env: StageEnvironment | null = null;
+  private stage: Stage | null = null;
 
   encode(env: StageEnvironment, stage: Stage): void {
     this.env = env;
@@ -394,6 +395,8 @@ class SignatureEncoder extends NumberKey {
     }
     this.shape(stage.pullUp);
     this.shape(stage.pullDown);
+    this.env = null;
+    this.stage = null;
   }
 
   private active = new Uint8Array(64);
@@ -408,10 +411,11 @@ class SignatureEncoder extends NumberKey {
   private role(net: number): number {
     if (net === POWER_END) return ROLE_POWER;
     if (net === GROUND_END) return ROLE_GROUND;
-    const r = this.env.railOf(net);
+    const r = this.env!.railOf(net);
     if (r) return r === 'power' ? ROLE_POWER : ROLE_GROUND;
-    if (net === this.stage.output) return ROLE_OUTPUT;
-    const i = this.stage.inputs.indexOf(net);
+    const stage = this.stage!;
+    if (net === stage.output) return ROLE_OUTPUT;
+    const i = stage.inputs.indexOf(net);
     if (i >= 0) return ROLE_INPUT - i;
     const local = this.local;
     for (let x = 0; x < this.localCount; x++) if (local[x] === net) return x;
