@@ -1086,6 +1086,8 @@ function parseText(path: string, text: string, numbers: NumberCache, from: numbe
     }
   } finally {
     parser.sink = previous;
+    // The parser is shared by every read in the process; its last tokens would keep this text alive.
+    parser.input = [];
   }
   builder.finish();
   return builder;
