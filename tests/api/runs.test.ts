@@ -443,7 +443,8 @@ describe('the demo seed', () => {
 
     // Both ends of the waiver flow, on findings of the finished runs: a reviewer's waiver with a bound and an
     // expiry, and a designer's request waiting for a reviewer (whose mail is queued).
-    const made = await seedDemoWaivers(env.ctx, new Date('2026-12-02T09:00:00Z'));
+    const now = new Date();
+    const made = await seedDemoWaivers(env.ctx, now);
     expect(made).toHaveLength(DEMO_WAIVERS.length);
     expect(await seedDemoWaivers(env.ctx)).toEqual([]); // idempotent
     const waivers = await Waiver.findAll({ where: { teamId: team.id }, order: [['createdAt', 'asc']] });
@@ -452,7 +453,9 @@ describe('the demo seed', () => {
       ['dynamic.keeper-ratio', 'lantern_alu_slice', 'requested', 'finding'],
     ]);
     expect(waivers[0].bound).toEqual({ value: 4, unit: 'count', sense: 'max' });
-    expect(waivers[0].expiresAt?.toISOString()).toBe('2027-06-01T00:00:00.000Z'); // 180 days on, to the end of that day
+    // 180 days on, to the end of that day (UTC).
+    const lastDay = new Date(now.getTime() + 180 * 86_400_000).toISOString().slice(0, 10);
+    expect(waivers[0].expiresAt?.toISOString()).toBe(new Date(Date.parse(`${lastDay}T00:00:00Z`) + 86_400_000).toISOString());
     const reviewer = DEMO_USERS.find((u) => u.roles.includes('reviewer'))!;
     const mails = await MailMessage.findAll({ where: { teamId: team.id, subject: 'Keepwell: waiver requested for dynamic.keeper-ratio in lantern_alu_slice' } });
     expect(mails.map((m) => m.to)).toEqual([reviewer.email]);
