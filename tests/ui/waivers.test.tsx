@@ -180,6 +180,20 @@ describe('waiver state display', () => {
     await waitFor(() => expect(api.callsTo(`POST /api/waivers/${WAIVER_ID}/approve`)).toHaveLength(1));
   });
 
+  it('a pending request offers a reviewer the decision, not a withdrawal; an admin may withdraw it', async () => {
+    const routes = { [`GET /api/waivers/${WAIVER_ID}`]: () => json(200, waiver()) };
+    fakeApi({ ...sessionRoutes(users.reviewer), ...routes });
+    const { unmount } = renderApp(`/waivers/${WAIVER_ID}`);
+    expect(await screen.findByRole('button', { name: 'Reject' })).toBeInTheDocument();
+    expect(screen.queryByRole('button', { name: 'Withdraw the request' })).not.toBeInTheDocument();
+    unmount();
+
+    fakeApi({ ...sessionRoutes(users.admin), ...routes });
+    renderApp(`/waivers/${WAIVER_ID}`);
+    expect(await screen.findByRole('button', { name: 'Withdraw the request' })).toBeInTheDocument();
+    expect(screen.queryByRole('button', { name: 'Approve' })).not.toBeInTheDocument();
+  });
+
   it('the list shows each waiver with its standing and filters by standing in the address', async () => {
     const user = userEvent.setup();
     const items = [waiver(), waiver({ id: 'e1000000-0000-4000-8000-000000000009', state: 'revoked', standing: 'revoked', cell: 'lk_inv' })];

@@ -97,7 +97,8 @@ function WaiverBody({ waiver }: { waiver: WaiverDetail }) {
             <WaiverDecisionForm waiver={waiver} />
           </Panel>
         )}
-        {(waiver.state === 'approved' || waiver.state === 'requested') && canRevoke && (
+        {/* A pending request is rejected, with a reason for the designer, by whoever can decide on it; withdrawing is for the others who may revoke. */}
+        {canRevoke && (waiver.state === 'approved' || (waiver.state === 'requested' && !canDecide)) && (
           <Panel className="p-4">
             <WaiverRevokeForm waiver={waiver} />
           </Panel>
