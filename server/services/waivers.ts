@@ -18,7 +18,7 @@ import {
 import type { Quantity } from '../../shared/findings';
 import type { Severity } from '../../shared/deck';
 import type { AppContext } from '../context';
-import { conflict, HttpError, notFound } from '../errors';
+import { conflict, forbidden, HttpError, notFound } from '../errors';
 import { Waiver } from '../db/models';
 import { recordAudit } from './audit';
 import { waiverClock } from './waivers-status';
@@ -347,6 +347,24 @@ export async function revokeWaiver(ctx: Ctx, actor: WaiverActor, id: string, rea
     if (revoked.requested_by !== actor.id) {
       await mailRequester(ctx, revoked, (name) => waiverRevokedMail({ ...mailSubject(ctx, revoked), name, revoker: revoked.revoker_name ?? 'A reviewer', reason }), transaction);
     }
+  });
+  return waiverView(await waiverRow(ctx, actor.teamId, id), now);
+}
+
+/**
+ * A designer withdraws their own request while it waits for a reviewer; the row stays, as revoked, with the reason.
+ * Nobody is mailed: the requester did it, and a reviewer's queue simply no longer shows it.
+ */
+export async function withdrawWaiverRequest(ctx: Ctx, actor: WaiverActor, id: string, reason: string): Promise<WaiverView> {
+  const now = waiverClock.now();
+  await ctx.sequelize.transaction(async (transaction) => {
+    const w = await lockWaiver(ctx, actor.teamId, id, ['requested'], transaction);
+    if (w.requested_by !== actor.id) throw forbidden('Only the designer who asked for this waiver can withdraw the request.');
+    await ctx.sequelize.query(
+      `update waivers set state = 'revoked', revoked_by = :actorId, revoked_at = :now, revoke_reason = :reason, updated_at = :now where id = :id`,
+      { replacements: { id, actorId: actor.id, now, reason }, transaction },
+    );
+    await recordAudit({ teamId: actor.teamId, actorId: actor.id, action: 'waiver.withdraw', subjectType: 'waiver', subjectId: id, detail: { reason } }, transaction);
   });
   return waiverView(await waiverRow(ctx, actor.teamId, id), now);
 }

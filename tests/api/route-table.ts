@@ -154,6 +154,7 @@ export const ROUTES: RouteCase[] = [
   { method: 'post', path: async (fx) => `/api/waivers/${(await makeWaiver(fx, 'requested')).id}/approve`, permission: 'waiver.decide', body: () => ({ comment: 'route table' }) },
   { method: 'post', path: async (fx) => `/api/waivers/${(await makeWaiver(fx, 'requested')).id}/reject`, permission: 'waiver.decide', body: () => ({ comment: 'route table' }) },
   { method: 'post', path: async (fx) => `/api/waivers/${(await makeWaiver(fx, 'approved')).id}/revoke`, permission: 'waiver.revoke', body: () => ({ reason: 'route table' }) },
+  // POST /api/waivers/:id/withdraw takes the caller's own pending request: tried by role in waivers.test.ts.
 
   // A finished run's hand-off: review report (JSON, PDF), findings CSV, SARIF.
   { method: 'get', path: async (fx) => `/api/runs/${(await makeRunWithFinding(fx)).run.id}/report`, permission: 'design.read' },

@@ -284,3 +284,40 @@ describe('waivers', () => {
     expect(waiverEvents.filter((e) => e.action !== 'waiver.expiry-warning').every((e) => e.actor !== null)).toBe(true);
   });
 });
+
+describe('withdrawing a request', () => {
+  it('the requester withdraws their own pending request; nobody else can, and a decided one is not withdrawn', async () => {
+    const team = await createTeam();
+    await sizeOnlyTeamDeck(team);
+    const blockId = (await heronBlock(team)).id;
+    const designer = await signedInAs(env, team, ['designer']);
+    const otherDesigner = await signedInAs(env, team, ['designer']);
+    const reviewer = await signedInAs(env, team, ['reviewer']);
+    const run = await finishedRun(designer.agent, blockId, heronColumn());
+    const ask = async (cell: string) => {
+      const f = inCell(await findings(designer.agent, run), cell);
+      return (await designer.agent.post('/api/waivers').send({ runId: run, findingId: f.id, scope: 'finding', justification: 'Sized for the slow corner only; see the column sizing note.' }).expect(201))
+        .body as WaiverView;
+    };
+    const asked = await ask('hcol_pre');
+    expect(inCell(await findings(designer.agent, run), 'hcol_pre').status).toBe('waiver-requested');
+
+    await otherDesigner.agent.post(`/api/waivers/${asked.id}/withdraw`).send({ reason: 'not mine to withdraw' }).expect(403);
+    await reviewer.agent.post(`/api/waivers/${asked.id}/withdraw`).send({ reason: 'reviewers reject instead' }).expect(403);
+    await designer.agent.post(`/api/waivers/${asked.id}/withdraw`).send({ reason: '' }).expect(400);
+    const withdrawn = (await designer.agent.post(`/api/waivers/${asked.id}/withdraw`).send({ reason: 'Resized the strap instead.' }).expect(200)).body;
+    expect(withdrawn).toMatchObject({ state: 'revoked', standing: 'revoked', revoker: { id: designer.user.id }, revokeReason: 'Resized the strap instead.' });
+    expect(inCell(await findings(designer.agent, run), 'hcol_pre')).toMatchObject({ status: 'open', waiver: null });
+    const detail = (await designer.agent.get(`/api/waivers/${asked.id}`).expect(200)).body as WaiverDetail;
+    expect(detail.history.map((e) => [e.action, e.actor?.id ?? null])).toEqual([
+      ['waiver.request', designer.user.id],
+      ['waiver.withdraw', designer.user.id],
+    ]);
+    await designer.agent.post(`/api/waivers/${asked.id}/withdraw`).send({ reason: 'again' }).expect(409);
+
+    // Once a reviewer has approved it, ending it is a revocation (reviewer or admin), not a withdrawal.
+    const approved = await ask('hcol_drv');
+    await reviewer.agent.post(`/api/waivers/${approved.id}/approve`).send({ comment: '' }).expect(200);
+    await designer.agent.post(`/api/waivers/${approved.id}/withdraw`).send({ reason: 'changed my mind' }).expect(409);
+  });
+});

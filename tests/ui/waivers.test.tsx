@@ -8,7 +8,7 @@
 import { screen, waitFor, within } from '@testing-library/react';
 import userEvent from '@testing-library/user-event';
 import { describe, expect, it, vi } from 'vitest';
-import { createWaiverBodySchema, decideWaiverBodySchema, rejectWaiverBodySchema, type WaiverView } from '../../shared/api/waivers';
+import { createWaiverBodySchema, decideWaiverBodySchema, rejectWaiverBodySchema, revokeWaiverBodySchema, type WaiverView } from '../../shared/api/waivers';
 import type { User } from '../../shared/api/auth';
 import type { NetlistEditorProps } from '../../src/features/editor';
 import { users } from './fixtures';
@@ -192,6 +192,29 @@ describe('waiver state display', () => {
     renderApp(`/waivers/${WAIVER_ID}`);
     expect(await screen.findByRole('button', { name: 'Withdraw the request' })).toBeInTheDocument();
     expect(screen.queryByRole('button', { name: 'Approve' })).not.toBeInTheDocument();
+  });
+
+  it('a designer withdraws their own pending request with a reason; another designer cannot', async () => {
+    const user = userEvent.setup();
+    const api = fakeApi({
+      ...sessionRoutes(users.designer),
+      [`GET /api/waivers/${WAIVER_ID}`]: () => json(200, waiver()),
+      [`POST /api/waivers/${WAIVER_ID}/withdraw`]: () => json(200, { ...waiver(), state: 'revoked', standing: 'revoked' }),
+    });
+    const { unmount } = renderApp(`/waivers/${WAIVER_ID}`);
+    await user.click(await screen.findByRole('button', { name: 'Withdraw the request' }));
+    const form = screen.getByRole('form', { name: 'Withdraw the request' });
+    await user.type(within(form).getByLabelText(/Why it no longer applies/), 'Resized the keeper instead.');
+    await user.click(within(form).getByRole('button', { name: 'Withdraw' }));
+    await waitFor(() => expect(api.callsTo(`POST /api/waivers/${WAIVER_ID}/withdraw`)).toHaveLength(1));
+    expect(revokeWaiverBodySchema.parse(api.callsTo(`POST /api/waivers/${WAIVER_ID}/withdraw`)[0].body)).toEqual({ reason: 'Resized the keeper instead.' });
+    expect(api.callsTo(`POST /api/waivers/${WAIVER_ID}/revoke`)).toHaveLength(0);
+    unmount();
+
+    fakeApi({ ...sessionRoutes(users.designer), [`GET /api/waivers/${WAIVER_ID}`]: () => json(200, waiver({ requester: { id: '9f000000-0000-4000-8000-000000000009', name: 'Tomas Lindqvist', email: 'tomas.lindqvist@larkspur.example' } })) });
+    renderApp(`/waivers/${WAIVER_ID}`);
+    await screen.findByRole('heading', { name: 'History' });
+    expect(screen.queryByRole('button', { name: 'Withdraw the request' })).not.toBeInTheDocument();
   });
 
   it('the list shows each waiver with its standing and filters by standing in the address', async () => {

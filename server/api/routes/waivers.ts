@@ -1,6 +1,6 @@
 // /api/waivers: the team's waivers (list, one with its history, those of one
-// finding), requests by designers, direct waivers and decisions by reviewers, and
-// revocation. Matching against findings happens where findings are read
+// finding), requests by designers and their withdrawal, direct waivers and
+// decisions by reviewers, and revocation. Matching against findings happens where findings are read
 // (server/services/waivers-status.ts).
 
 import { Router } from 'express';
@@ -14,7 +14,7 @@ import {
   waiverListQuerySchema,
 } from '../../../shared/api/waivers';
 import type { AppContext } from '../../context';
-import { createWaiver, decideWaiver, getWaiver, listWaivers, revokeWaiver, waiversOfFinding } from '../../services/waivers';
+import { createWaiver, decideWaiver, getWaiver, listWaivers, revokeWaiver, waiversOfFinding, withdrawWaiverRequest } from '../../services/waivers';
 import { parseRequest } from '../http';
 import { requirePermission, signedIn, teamIdOf } from '../middleware/auth';
 
@@ -62,6 +62,12 @@ export function waiverRoutes(ctx: AppContext): Router {
   router.post('/:id/revoke', requirePermission('waiver.revoke'), async (req, res) => {
     const { params, body } = parseRequest(req, { params: idParamSchema, body: revokeWaiverBodySchema });
     res.json(await revokeWaiver(ctx, actorOf(req), params.id, body.reason));
+  });
+
+  // The requester's own pending request only (checked in the service).
+  router.post('/:id/withdraw', requirePermission('waiver.request'), async (req, res) => {
+    const { params, body } = parseRequest(req, { params: idParamSchema, body: revokeWaiverBodySchema });
+    res.json(await withdrawWaiverRequest(ctx, actorOf(req), params.id, body.reason));
   });
 
   return router;

@@ -148,7 +148,8 @@ export function WaiverDecisionForm({ waiver, onDone }: { waiver: WaiverView; onD
   );
 }
 
-export function WaiverRevokeForm({ waiver, onDone }: { waiver: WaiverView; onDone?: (w: WaiverView) => void }) {
+/** Revoke a waiver or request (reviewer, admin), or, with `withdraw`, take back one's own pending request (designer). */
+export function WaiverRevokeForm({ waiver, withdraw = false, onDone }: { waiver: WaiverView; withdraw?: boolean; onDone?: (w: WaiverView) => void }) {
   const revoke = useRevokeWaiver();
   const [reason, setReason] = useState('');
   const [open, setOpen] = useState(false);
@@ -162,18 +163,18 @@ export function WaiverRevokeForm({ waiver, onDone }: { waiver: WaiverView; onDon
   return (
     <form
       noValidate
-      aria-label="Revoke the waiver"
+      aria-label={withdraw ? 'Withdraw the request' : 'Revoke the waiver'}
       className="space-y-2"
       onSubmit={(e) => {
         e.preventDefault();
-        if (reason.trim()) revoke.mutate({ id: waiver.id, reason: reason.trim() }, { onSuccess: onDone });
+        if (reason.trim()) revoke.mutate({ id: waiver.id, reason: reason.trim(), withdraw }, { onSuccess: onDone });
       }}
     >
       {revoke.isError && <ErrorNotice error={revoke.error} title="The waiver was not revoked" />}
       <TextAreaField label="Why it no longer applies" value={reason} onChange={(e) => setReason(e.target.value)} rows={2} maxLength={4000} required />
       <div className="flex gap-2">
         <Button type="submit" size="sm" variant="danger" busy={revoke.isPending} disabled={!reason.trim()}>
-          Revoke
+          {withdraw ? 'Withdraw' : 'Revoke'}
         </Button>
         <Button size="sm" variant="ghost" onClick={() => setOpen(false)}>
           Keep it

@@ -11,7 +11,7 @@ import { ErrorNotice, Notice } from '../../components/Notice';
 import { PageHeader, Panel } from '../../components/PageHeader';
 import { useDocumentTitle } from '../../lib/document-title';
 import { formatDate, formatDateTime } from '../../lib/format';
-import { useCan } from '../../lib/session';
+import { useCan, useCurrentUser } from '../../lib/session';
 import { formatQuantity } from '../findings/quantity';
 import { waiverQuery } from './queries';
 import { WaiverDecisionForm, WaiverRevokeForm } from './WaiverForms';
@@ -23,6 +23,7 @@ const ACTIONS: Record<string, string> = {
   'waiver.approve': 'Approved',
   'waiver.reject': 'Rejected',
   'waiver.revoke': 'Revoked',
+  'waiver.withdraw': 'Withdrawn by the requester',
   'waiver.expiry-warning': 'Expiry reminder sent',
 };
 
@@ -38,6 +39,9 @@ function Fact({ label, children }: { label: string; children: React.ReactNode })
 function WaiverBody({ waiver }: { waiver: WaiverDetail }) {
   const canDecide = useCan('waiver.decide');
   const canRevoke = useCan('waiver.revoke');
+  const canRequest = useCan('waiver.request');
+  const user = useCurrentUser();
+  const ownPendingRequest = waiver.state === 'requested' && canRequest && waiver.requester?.id === user.id;
   return (
     <div className="grid gap-6 lg:grid-cols-[minmax(0,2fr)_minmax(0,1fr)]">
       <div className="space-y-4">
@@ -97,8 +101,13 @@ function WaiverBody({ waiver }: { waiver: WaiverDetail }) {
             <WaiverDecisionForm waiver={waiver} />
           </Panel>
         )}
+        {ownPendingRequest && (
+          <Panel className="p-4">
+            <WaiverRevokeForm waiver={waiver} withdraw />
+          </Panel>
+        )}
         {/* A pending request is rejected, with a reason for the designer, by whoever can decide on it; withdrawing is for the others who may revoke. */}
-        {canRevoke && (waiver.state === 'approved' || (waiver.state === 'requested' && !canDecide)) && (
+        {!ownPendingRequest && canRevoke && (waiver.state === 'approved' || (waiver.state === 'requested' && !canDecide)) && (
           <Panel className="p-4">
             <WaiverRevokeForm waiver={waiver} />
           </Panel>

@@ -62,7 +62,9 @@ export function useDecideWaiver() {
 export function useRevokeWaiver() {
   const invalidate = useInvalidate();
   return useMutation({
-    mutationFn: ({ id, reason }: { id: string; reason: string }) => api.post(`/api/waivers/${encodeURIComponent(id)}/revoke`, { reason }, { schema: waiverSchema }),
+    /** `withdraw`: the requester's own pending request; otherwise a reviewer's or admin's revocation. */
+    mutationFn: ({ id, reason, withdraw = false }: { id: string; reason: string; withdraw?: boolean }) =>
+      api.post(`/api/waivers/${encodeURIComponent(id)}/${withdraw ? 'withdraw' : 'revoke'}`, { reason }, { schema: waiverSchema }),
     onSuccess: invalidate,
   });
 }
