@@ -204,7 +204,7 @@ describe('waiver state display', () => {
     const { unmount } = renderApp(`/waivers/${WAIVER_ID}`);
     await user.click(await screen.findByRole('button', { name: 'Withdraw the request' }));
     const form = screen.getByRole('form', { name: 'Withdraw the request' });
-    await user.type(within(form).getByLabelText(/Why it no longer applies/), 'Resized the keeper instead.');
+    await user.type(within(form).getByLabelText(/Why the request is withdrawn/), 'Resized the keeper instead.');
     await user.click(within(form).getByRole('button', { name: 'Withdraw' }));
     await waitFor(() => expect(api.callsTo(`POST /api/waivers/${WAIVER_ID}/withdraw`)).toHaveLength(1));
     expect(revokeWaiverBodySchema.parse(api.callsTo(`POST /api/waivers/${WAIVER_ID}/withdraw`)[0].body)).toEqual({ reason: 'Resized the keeper instead.' });

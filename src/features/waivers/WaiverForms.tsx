@@ -171,7 +171,7 @@ export function WaiverRevokeForm({ waiver, withdraw = false, onDone }: { waiver:
       }}
     >
       {revoke.isError && <ErrorNotice error={revoke.error} title="The waiver was not revoked" />}
-      <TextAreaField label="Why it no longer applies" value={reason} onChange={(e) => setReason(e.target.value)} rows={2} maxLength={4000} required />
+      <TextAreaField label={withdraw ? 'Why the request is withdrawn' : 'Why it no longer applies'} value={reason} onChange={(e) => setReason(e.target.value)} rows={2} maxLength={4000} required />
       <div className="flex gap-2">
         <Button type="submit" size="sm" variant="danger" busy={revoke.isPending} disabled={!reason.trim()}>
           {withdraw ? 'Withdraw' : 'Revoke'}
