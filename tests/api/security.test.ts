@@ -93,6 +93,8 @@ const TRIED_ELSEWHERE: { method: string; path: string; file: string; mentions: s
   // One's own records only: by role in "are cancelled by their submitter or an admin only", and a token's owner.
   { method: 'post', path: '/api/runs/:id/cancel', file: 'runs.test.ts', mentions: 'post(`/api/runs/${r1}/cancel`)' },
   { method: 'post', path: '/api/tokens/:id/revoke', file: 'tokens.test.ts', mentions: '/revoke`)' },
+  // The requester's own pending waiver request: by role in "withdrawing a request".
+  { method: 'post', path: '/api/waivers/:id/withdraw', file: 'waivers.test.ts', mentions: '/withdraw`)' },
 ];
 
 describe('the role table', () => {
