@@ -27,37 +27,35 @@ export function connectivityOf(ctx: CellContext): Connectivity {
     const cell = ctx.cell;
     const n = cell.nets.length;
     const groups = new UnionFind(n);
-    const find = (x: number) => groups.find(x);
-    const union = (a: number, b: number) => groups.union(a, b);
     const alias = index.alias;
     const connected = new Uint8Array(n);
     for (const m of cell.mosfets) {
       const d = alias[m.drain];
       const s = alias[m.source];
       connected[d] = connected[s] = 1;
-      union(d, s);
+      groups.union(d, s);
     }
     for (const o of cell.others) {
       if (o.kind === 'cap') continue;
       const [a, b] = terminalsOf(o);
       connected[alias[a]] = connected[alias[b]] = 1;
-      union(alias[a], alias[b]);
+      groups.union(alias[a], alias[b]);
     }
-    for (let i = 0; i < n; i++) union(i, alias[i]);
+    for (let i = 0; i < n; i++) groups.union(i, alias[i]);
     const anchored = new Uint8Array(n);
-    for (let i = 0; i < n; i++) if (index.railOf(i)) anchored[find(i)] = 1;
-    for (const p of cell.ports) anchored[find(alias[p])] = 1;
+    for (let i = 0; i < n; i++) if (index.railOf(i)) anchored[groups.find(i)] = 1;
+    for (const p of cell.ports) anchored[groups.find(alias[p])] = 1;
     cell.instances.forEach((inst, k) => {
       const reach = channelPorts(ctx, k);
       inst.pins.forEach((p, j) => {
         if (reach[j]) {
-          anchored[find(alias[p])] = 1;
+          anchored[groups.find(alias[p])] = 1;
           connected[alias[p]] = 1;
         }
       });
     });
     const component = new Int32Array(n);
-    for (let i = 0; i < n; i++) component[i] = find(i);
+    for (let i = 0; i < n; i++) component[i] = groups.find(i);
     return { component, anchored, connected };
   });
 }

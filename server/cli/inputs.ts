@@ -172,7 +172,6 @@ export function readOptions(loaded: LoadedFiles, deck: Deck, extra: { top?: stri
 /** A design read from the command line's files under its deck, with the path to show for each file key. */
 export interface CommandLineDesign {
   deck: Deck;
-  loaded: LoadedFiles;
   design: Design;
   shown: (file: string) => string;
 }
@@ -188,9 +187,9 @@ export function readCommandLineDesign(values: { deck?: string; scale?: string; t
   const design = readDesign(loaded.files, readOptions(loaded, deck, { top: values.top, scale }));
   const shown = (file: string) => loaded.display.get(file) ?? file;
   for (const d of design.diagnostics) process.stderr.write(formatDiagnostic(d, shown(d.file)) + '\n');
-  return { deck, loaded, design, shown };
+  return { deck, design, shown };
 }
 
-export function formatDiagnostic(d: Diagnostic, file: string): string {
+function formatDiagnostic(d: Diagnostic, file: string): string {
   return `${file}:${d.line}:${d.column}: ${d.severity}: ${d.message}${d.hint ? `\n  hint: ${d.hint}` : ''}`;
 }

@@ -333,15 +333,20 @@ export async function decideWaiver(ctx: Ctx, actor: WaiverActor, id: string, dec
   return waiverView(await waiverRow(ctx, actor.teamId, id), now);
 }
 
+/** The row stays, as revoked, with who ended it, when and why. */
+async function markRevoked(ctx: Ctx, actor: WaiverActor, id: string, reason: string, now: Date, transaction: Transaction) {
+  await ctx.sequelize.query(
+    `update waivers set state = 'revoked', revoked_by = :actorId, revoked_at = :now, revoke_reason = :reason, updated_at = :now where id = :id`,
+    { replacements: { id, actorId: actor.id, now, reason }, transaction },
+  );
+}
+
 /** Withdraw a request or end an approved waiver; the row stays, with who revoked it, when and why. */
 export async function revokeWaiver(ctx: Ctx, actor: WaiverActor, id: string, reason: string): Promise<WaiverView> {
   const now = waiverClock.now();
   await ctx.sequelize.transaction(async (transaction) => {
     const w = await lockWaiver(ctx, actor.teamId, id, ['requested', 'approved'], transaction);
-    await ctx.sequelize.query(
-      `update waivers set state = 'revoked', revoked_by = :actorId, revoked_at = :now, revoke_reason = :reason, updated_at = :now where id = :id`,
-      { replacements: { id, actorId: actor.id, now, reason }, transaction },
-    );
+    await markRevoked(ctx, actor, id, reason, now, transaction);
     await recordAudit({ teamId: actor.teamId, actorId: actor.id, action: 'waiver.revoke', subjectType: 'waiver', subjectId: id, detail: { reason, was: w.state } }, transaction);
     const revoked = await waiverRow(ctx, actor.teamId, id, transaction);
     if (revoked.requested_by !== actor.id) {
@@ -360,10 +365,7 @@ export async function withdrawWaiverRequest(ctx: Ctx, actor: WaiverActor, id: st
   await ctx.sequelize.transaction(async (transaction) => {
     const w = await lockWaiver(ctx, actor.teamId, id, ['requested'], transaction);
     if (w.requested_by !== actor.id) throw forbidden('Only the designer who asked for this waiver can withdraw the request.');
-    await ctx.sequelize.query(
-      `update waivers set state = 'revoked', revoked_by = :actorId, revoked_at = :now, revoke_reason = :reason, updated_at = :now where id = :id`,
-      { replacements: { id, actorId: actor.id, now, reason }, transaction },
-    );
+    await markRevoked(ctx, actor, id, reason, now, transaction);
     await recordAudit({ teamId: actor.teamId, actorId: actor.id, action: 'waiver.withdraw', subjectType: 'waiver', subjectId: id, detail: { reason } }, transaction);
   });
   return waiverView(await waiverRow(ctx, actor.teamId, id), now);
