@@ -131,6 +131,21 @@ export class MosTable {
     return this.cursor.at(this.offset[r]);
   }
 
+  /** The file the rows come from. */
+  get file(): string {
+    return this.cursor.file;
+  }
+
+  /** 1-based line of row `r` (`loc` without the object). */
+  lineOf(r: number): number {
+    return this.cursor.lineIndex(this.offset[r]) + 1;
+  }
+
+  /** 1-based column of row `r`, given its line. */
+  columnOf(r: number, line: number): number {
+    return this.offset[r] - this.cursor.starts[line - 1] + 1;
+  }
+
   private grow(): void {
     const n = this.drain.length * 2;
     const grow32 = (a: Int32Array) => {

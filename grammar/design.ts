@@ -6,6 +6,8 @@
 // Net references inside a cell are small integers indexing `Cell.nets`, so that
 // analyses can use typed arrays and avoid string work on hot paths.
 
+import type { MosfetTable } from './mosfet-table';
+
 export interface SourceLoc {
   /** Path of the file as given in the uploaded set (forward slashes). */
   file: string;
@@ -115,7 +117,8 @@ export interface Cell {
   netIndex: Map<string, number>;
   /** Where each net is first mentioned (its definition for ports). */
   netLocs: SourceLoc[];
-  mosfets: Mosfet[];
+  /** The cell's transistors, column by column (`mosfets.at(i)` for one as a record). */
+  mosfets: MosfetTable;
   /** Resistors, capacitors, sources and diodes. */
   others: Exclude<Device, Mosfet>[];
   instances: Instance[];

@@ -28,13 +28,14 @@ import type {
   Value,
 } from './ast';
 import type { MosRow } from './ast';
-import type { Cell, Design, Diagnostic, DiagnosticSeverity, ModelCard, Mosfet, MosPolarity, PinDirection, RailKind, SourceLoc } from './design';
+import type { Cell, Design, Diagnostic, DiagnosticSeverity, ModelCard, MosPolarity, PinDirection, RailKind, SourceLoc } from './design';
 import { evaluate } from './expression';
 import { NumberCache } from './numbers';
 import { parseNetlist } from './parser';
 import { normalizePath, resolveInclude } from './paths';
 import { NameTable } from './names';
 import { LocationCursor, lineOf } from './source';
+import { MosfetTable } from './mosfet-table';
 
 export interface ReadOptions {
   /** Files to start from; default: every file no other file includes. */
@@ -696,7 +697,7 @@ class Elaborator {
       nets: [],
       netIndex: new Map(),
       netLocs: [],
-      mosfets: [],
+      mosfets: new MosfetTable(),
       others: [],
       instances: [],
       loc: def === this.top ? (def.elements[0]?.loc ?? def.loc) : def.loc,
@@ -795,8 +796,7 @@ class Elaborator {
               this.modelProblem(el.name, el.model, kind, elFile, el.modelOffset);
               break;
             }
-            const m = this.mosfet(row, elFile, kind === 'nmos' ? 'n' : 'p', net, lookup, scale);
-            if (m) cell.mosfets.push(m);
+            this.mosfet(cell.mosfets, row, elFile, kind === 'nmos' ? 'n' : 'p', net, lookup, scale);
             break;
           }
           case 'instance': {
@@ -910,7 +910,8 @@ class Elaborator {
     return { w: wv * scale, l: lv * scale };
   }
 
-  private mosfet(row: MosRow, file: string, polarity: MosPolarity, net: (id: number) => number, lookup: Lookup, scale: number): Mosfet | null {
+  /** Adds an M line's device to `into`, unless its size cannot be evaluated. */
+  private mosfet(into: MosfetTable, row: MosRow, file: string, polarity: MosPolarity, net: (id: number) => number, lookup: Lookup, scale: number): void {
     const t = row.table;
     const r = row.row;
     const at = 4 * r;
@@ -924,7 +925,7 @@ class Elaborator {
       l = lRaw * scale;
     } else {
       const size = this.sizes(t.names[r], t.value(r, 0), t.value(r, 1), file, t.loc(r), lookup, scale);
-      if (!size) return null;
+      if (!size) return;
       w = size.w;
       l = size.l;
     }
@@ -955,22 +956,8 @@ class Elaborator {
         if (p.name === 'mult') mult = v;
       }
     }
-    return {
-      kind: 'mos',
-      polarity,
-      name: t.names[r],
-      drain: net(t.drain[r]),
-      gate: net(t.gate[r]),
-      source: net(t.source[r]),
-      bulk: net(t.bulk[r]),
-      model: t.models[r],
-      w,
-      l,
-      m: m ?? mult ?? 1,
-      nf,
-      params,
-      loc: t.loc(r),
-    };
+    const line = t.lineOf(r);
+    into.add(polarity, t.names[r], net(t.drain[r]), net(t.gate[r]), net(t.source[r]), net(t.bulk[r]), t.models[r], w, l, m ?? mult ?? 1, nf, params, t.file, line, t.columnOf(r, line));
   }
 
   /** An X line naming a PDK device rather than a subcircuit. */
@@ -1023,22 +1010,8 @@ class Elaborator {
           if (p.name === 'mult') mult = v;
         }
       }
-      cell.mosfets.push({
-        kind: 'mos',
-        polarity: kind === 'nmos' ? 'n' : 'p',
-        name: el.name,
-        drain: net(el.nodes[0]),
-        gate: net(el.nodes[1]),
-        source: net(el.nodes[2]),
-        bulk: net(el.nodes[3]),
-        model: el.cell,
-        w,
-        l,
-        m: m ?? mult ?? 1,
-        nf,
-        params,
-        loc: el.loc,
-      });
+      const loc = el.loc;
+      cell.mosfets.add(kind === 'nmos' ? 'n' : 'p', el.name, net(el.nodes[0]), net(el.nodes[1]), net(el.nodes[2]), net(el.nodes[3]), el.cell, w, l, m ?? mult ?? 1, nf, params, loc.file, loc.line, loc.column);
       return;
     }
     if (el.nodes.length !== 2) {
@@ -1318,12 +1291,7 @@ function mergeTies(cell: Cell, ties: [number, number][]): void {
   for (const [name, id] of cell.netIndex) index.set(name, map(id));
   cell.netIndex = index;
   cell.ports = cell.ports.map(map);
-  for (const m of cell.mosfets) {
-    m.drain = map(m.drain);
-    m.gate = map(m.gate);
-    m.source = map(m.source);
-    m.bulk = map(m.bulk);
-  }
+  cell.mosfets.remapNets(map);
   for (const d of cell.others) {
     if (d.kind === 'res' || d.kind === 'cap') {
       d.a = map(d.a);

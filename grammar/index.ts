@@ -9,6 +9,7 @@ export type { ReadOptions } from './elaborate';
 export { TOP_LEVEL_CELL } from './elaborate';
 export type * from './design';
 export { instanceCounts, topologicalOrder, occurringOrder, flattenedTotals, flattenedDeviceCount } from './design';
+export { MosfetTable } from './mosfet-table';
 export type * from './ast';
 export { parseNetlist, type ParseOptions } from './parser';
 export { netlistLexer, netlistTokens, tokenize, statementChunks, fieldStore, FieldStore } from './lexer';

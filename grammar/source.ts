@@ -45,6 +45,12 @@ export class LocationCursor {
   ) {}
 
   at(offset: number): SourceLoc {
+    const line = this.lineIndex(offset);
+    return { file: this.file, line: line + 1, column: offset - this.starts[line] + 1 };
+  }
+
+  /** 0-based index of the line holding `offset`. */
+  lineIndex(offset: number): number {
     const s = this.starts;
     let line = this.line;
     if (offset < s[line]) line = lineOf(s, offset) - 1;
@@ -60,6 +66,6 @@ export class LocationCursor {
       }
     }
     this.line = line;
-    return { file: this.file, line: line + 1, column: offset - s[line] + 1 };
+    return line;
   }
 }

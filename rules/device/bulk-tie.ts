@@ -34,19 +34,21 @@ export default defineRule({
     const index = cellIndex(ctx);
     const cell = ctx.cell;
     const groups = new Map<string, { problem: Problem; net: number; devices: Mosfet[] }>();
-    for (const m of cell.mosfets) {
-      const bulk = index.alias[m.bulk];
+    const mos = cell.mosfets;
+    for (let i = 0; i < mos.length; i++) {
+      const bulk = index.alias[mos.bulk[i]];
       const rail = index.railOf(bulk);
       let problem: Problem | null = null;
       if (rail) {
-        if ((m.polarity === 'n') !== (rail === 'ground')) problem = 'opposite-rail';
-      } else if (bulk === index.alias[m.source] || bulk === index.alias[m.drain]) {
+        if (mos.isN(i) !== (rail === 'ground')) problem = 'opposite-rail';
+      } else if (bulk === index.alias[mos.source[i]] || bulk === index.alias[mos.drain[i]]) {
         if (!p.acceptSourceTied) problem = 'source';
       } else if (index.gates.count(bulk) > 0 || index.channel.count(bulk) > 0 || index.stages.driverOf.has(bulk)) {
         problem = 'signal';
       }
       // A body net that only reaches ports (a well tap left to the parent) is the parent's to tie.
       if (!problem) continue;
+      const m = mos.at(i);
       const key = `${problem}|${m.polarity}|${bulk}`;
       const g = groups.get(key);
       if (g) g.devices.push(m);

@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import type { Mosfet } from '../../grammar/design';
 import { defineRule } from '../types';
 import { formatSi } from '../units';
 
@@ -23,9 +24,11 @@ export default defineRule({
     maxLength: z.number().min(1e-6).max(1).default(1e-4).meta({ unit: 'm', label: 'Largest plausible length' }),
   }),
   check(ctx, p, report) {
-    const bad = ctx.cell.mosfets.filter(
-      (m) => !(m.w >= p.minWidth && m.w <= p.maxWidth && m.l >= p.minLength && m.l <= p.maxLength),
-    );
+    const { w, l, length } = ctx.cell.mosfets;
+    const bad: Mosfet[] = [];
+    for (let i = 0; i < length; i++) {
+      if (!(w[i] >= p.minWidth && w[i] <= p.maxWidth && l[i] >= p.minLength && l[i] <= p.maxLength)) bad.push(ctx.cell.mosfets.at(i));
+    }
     if (bad.length === 0) return;
     const first = bad[0];
     const widthBad = !(first.w >= p.minWidth && first.w <= p.maxWidth);

@@ -80,7 +80,8 @@ export default defineRule({
         // The node itself only falls during evaluation, which pulls its inputs down: not an aggressor for a low input.
         const on = aggressorsOn(d, g).filter((x) => x.net !== index.alias[d.node]);
         if (!on.length) continue;
-        const device = d.stage.elements.map((el) => (el.kind === 'mos' ? cell.mosfets[el.index] : null)).find((m) => m && index.alias[m.gate] === g);
+        const el = d.stage.elements.find((x) => x.kind === 'mos' && index.alias[cell.mosfets.gate[x.index]] === g);
+        const device = el ? cell.mosfets.at(el.index) : null;
         if (!device) continue;
         const cc = on.reduce((sum, x) => sum + x.capacitance, 0);
         const per = ctx.deck.corners.map((corner) => {

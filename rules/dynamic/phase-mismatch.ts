@@ -34,7 +34,7 @@ export default defineRule({
       const nets = new Set([d.name, netOf(d, d.clock)]);
       for (const e of d.footers) {
         const el = d.stage.elements[e];
-        const g = index.alias[cell.mosfets[el.index].gate];
+        const g = index.alias[cell.mosfets.gate[el.index]];
         if (g === d.clock) continue;
         const t = timing[g];
         const name = elementName(cell, d.stage, e);
@@ -71,7 +71,7 @@ export default defineRule({
           if (n.kind === 'leaf') {
             const el = d.stage.elements[n.element];
             if (el.kind !== 'mos') return [];
-            const g = index.alias[cell.mosfets[el.index].gate];
+            const g = index.alias[cell.mosfets.gate[el.index]];
             const r = index.railOf(g);
             if (r) return (r === 'power') === nEval ? [] : null;
             return levelIn(timing[g], pre.phase, h) === offLevel ? null : [g];

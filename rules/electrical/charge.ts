@@ -58,12 +58,13 @@ export function nodeCapacitance(cell: Cell, net: number, corner: Corner, alias?:
     if (o.kind !== 'cap') continue;
     if (same(o.a) !== same(o.b)) explicit += o.value;
   }
-  for (const m of cell.mosfets) {
-    const p = m.polarity === 'n' ? corner.nmos : corner.pmos;
-    const widthUm = m.w * m.m * PER_UM;
-    if (same(m.drain)) junction += p.cjPerUm * widthUm;
-    if (same(m.source)) junction += p.cjPerUm * widthUm;
-    if (same(m.gate)) gate += p.cgPerUm * widthUm;
+  const mos = cell.mosfets;
+  for (let i = 0; i < mos.length; i++) {
+    const p = mos.isN(i) ? corner.nmos : corner.pmos;
+    const widthUm = mos.w[i] * mos.m[i] * PER_UM;
+    if (same(mos.drain[i])) junction += p.cjPerUm * widthUm;
+    if (same(mos.source[i])) junction += p.cjPerUm * widthUm;
+    if (same(mos.gate[i])) gate += p.cgPerUm * widthUm;
   }
   return { total: explicit + junction + gate, explicit, junction, gate };
 }
@@ -113,8 +114,7 @@ export function worstChargeSharing(input: ChargeSharingInput): ChargeSharingResu
       const el = elements[n.element];
       if (el.kind === 'res') leaves.push({ a: root(n.a), b: root(n.b), gate: -1, n: true });
       else {
-        const m = cell.mosfets[el.index];
-        leaves.push({ a: root(n.a), b: root(n.b), gate: root(m.gate), n: m.polarity === 'n' });
+        leaves.push({ a: root(n.a), b: root(n.b), gate: root(cell.mosfets.gate[el.index]), n: cell.mosfets.isN(el.index) });
       }
     } else n.children.forEach(collect);
   };
@@ -229,7 +229,7 @@ export function driveCurrent(input: DriveInput, network: Network, va: number, vb
       const r = cell.others[el.index];
       return { kind: 'res', conductance: r.kind === 'res' && r.value > 0 ? 1 / r.value : 0 };
     }
-    const m = cell.mosfets[el.index];
+    const m = cell.mosfets.at(el.index);
     const resolved = resolver.get(m.polarity, m.model);
     const br = railOf(m.bulk);
     const bulk = br ? (br === 'power' ? 1 : 0) : m.polarity === 'n' ? 0 : 1;
@@ -248,7 +248,7 @@ export function weakestPath(input: Pick<NetworkContext, 'cell' | 'corner' | 'ele
     if (n.kind === 'leaf') {
       const el = input.elements[n.element];
       if (el.kind === 'res') return Infinity;
-      const m = input.cell.mosfets[el.index];
+      const m = input.cell.mosfets.at(el.index);
       const p = m.polarity === 'n' ? input.corner.nmos : input.corner.pmos;
       return (p.kPrime * m.w * m.m) / m.l;
     }
@@ -304,7 +304,7 @@ export function networkLeakage(input: Pick<NetworkContext, 'cell' | 'corner' | '
   if (network.kind === 'leaf') {
     const el = input.elements[network.element];
     if (el.kind === 'res') return Infinity;
-    const m = input.cell.mosfets[el.index];
+    const m = input.cell.mosfets.at(el.index);
     const p = m.polarity === 'n' ? input.corner.nmos : input.corner.pmos;
     return p.leakPerUm * m.w * m.m * PER_UM;
   }

@@ -26,7 +26,7 @@ export default defineRule({
       if (seen[net]) return;
       seen[net] = 1;
       if (index.railOf(net) || index.isPort[net] || conn.connected[net] || conn.anchored[conn.component[net]]) return;
-      const gated = [...index.gates.of(net)].map((i) => cell.mosfets[i]);
+      const gated = [...index.gates.of(net)].map((i) => cell.mosfets.at(i));
       const pins = [...index.pinInstances.of(net)].map((k) => cell.instances[k]);
       if (!gated.length && !pins.length) return;
       const loc = gated[0]?.loc ?? pins[0].loc;
@@ -40,7 +40,7 @@ export default defineRule({
         devices: [...gated.map((m) => m.name), ...pins.map((i) => i.name)].slice(0, 50),
       });
     };
-    for (const m of cell.mosfets) consider(index.alias[m.gate]);
+    for (let i = 0; i < cell.mosfets.length; i++) consider(index.alias[cell.mosfets.gate[i]]);
     for (const inst of cell.instances) for (const p of inst.pins) consider(index.alias[p]);
   },
 });

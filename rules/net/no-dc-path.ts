@@ -34,7 +34,7 @@ export default defineRule({
       const devices = new Set<number>();
       for (const net of nets) for (const i of index.channel.of(net)) devices.add(i);
       const gating = nets.filter((n) => index.gates.count(n) > 0 || index.pinInstances.count(n) > 0);
-      const ms = [...devices].sort((x, y) => x - y).map((i) => cell.mosfets[i]);
+      const ms = [...devices].sort((x, y) => x - y).map((i) => cell.mosfets.at(i));
       const loc = ms[0]?.loc ?? cell.netLocs[nets[0]];
       const names = nets.map((n) => cell.nets[n]);
       report({

@@ -76,8 +76,8 @@ export function dynamicBudgets(d: DynamicNode): CornerBudget[] {
 
 /** The node's stage, every device with a terminal on the node or on a stack node of its stage, and the capacitors there. */
 interface Neighbourhood {
-  /** Devices of the neighbourhood, with the index each has in the context's cell. */
-  mosfets: Cell['mosfets'];
+  /** The context's devices, and the index there of each device of the neighbourhood. */
+  cellMosfets: Cell['mosfets'];
   mosSource: number[];
   others: Cell['others'];
   /** The stage's elements, indexing `mosfets` and `others`. */
@@ -100,13 +100,11 @@ function neighbourhood(d: DynamicNode): Neighbourhood {
   const cell = ctx.cell;
   const mosMap = new Map<number, number>();
   const otherMap = new Map<number, number>();
-  const mosfets: Cell['mosfets'] = [];
   const mosSource: number[] = [];
   const others: Cell['others'] = [];
   const addMos = (i: number) => {
     if (!mosMap.has(i)) {
-      mosMap.set(i, mosfets.length);
-      mosfets.push(cell.mosfets[i]);
+      mosMap.set(i, mosSource.length);
       mosSource.push(i);
     }
   };
@@ -144,7 +142,7 @@ function neighbourhood(d: DynamicNode): Neighbourhood {
   for (const a of stage.auxiliary) {
     if ((a.rail === 'power') === (d.style === 'n-evaluate')) precharged.add(alias[a.node]);
   }
-  return { mosfets, mosSource, others, elements, precharged, role };
+  return { cellMosfets: cell.mosfets, mosSource, others, elements, precharged, role };
 }
 
 /**
@@ -153,20 +151,20 @@ function neighbourhood(d: DynamicNode): Neighbourhood {
  * precharged stack nodes. Every list is preceded by its length, so that no two neighbourhoods share a key.
  */
 function encodeNeighbourhood(d: DynamicNode, hood: Neighbourhood, key: NumberKey): void {
-  const { mosfets, others, elements, role } = hood;
+  const { cellMosfets: mos, mosSource, others, elements, role } = hood;
   key.reset();
   key.push(d.style === 'n-evaluate' ? 0 : 1);
-  key.push(mosfets.length);
-  for (const m of mosfets) {
-    key.push(m.polarity === 'n' ? 0 : 1);
-    key.push(m.w);
-    key.push(m.l);
-    key.push(m.m);
-    key.push(modelCode(m.model));
-    key.push(role(m.drain));
-    key.push(role(m.gate));
-    key.push(role(m.source));
-    key.push(role(m.bulk));
+  key.push(mosSource.length);
+  for (const i of mosSource) {
+    key.push(mos.isN(i) ? 0 : 1);
+    key.push(mos.w[i]);
+    key.push(mos.l[i]);
+    key.push(mos.m[i]);
+    key.push(modelCode(mos.models[i]));
+    key.push(role(mos.drain[i]));
+    key.push(role(mos.gate[i]));
+    key.push(role(mos.source[i]));
+    key.push(role(mos.bulk[i]));
   }
   let passive = 0;
   for (const o of others) if (o.kind === 'cap' || o.kind === 'res') passive++;
@@ -203,18 +201,18 @@ function encodeNeighbourhood(d: DynamicNode, hood: Neighbourhood, key: NumberKey
 
 /** The neighbourhood as a small cell of its own: the node's nets, and only its devices. */
 function neighbourhoodCell(cell: Cell, hood: Neighbourhood): Cell {
-  return { ...cell, mosfets: hood.mosfets, others: hood.others };
+  return { ...cell, mosfets: hood.cellMosfets.subset(hood.mosSource), others: hood.others };
 }
 
 /** Per keeper: the devices and shapes of the keeper and of the evaluation network, all that its ratio depends on. */
 function keeperSignatures(d: DynamicNode, hood: Neighbourhood): string[] {
-  const { mosfets, elements, role } = hood;
+  const { cellMosfets: mos, mosSource, elements, role } = hood;
   const deviceOf = (n: Network): string => {
     if (n.kind !== 'leaf') return `${n.kind[0]}(${n.children.map(deviceOf).join(' ')})`;
     const el = elements[n.element];
     if (el.kind !== 'mos') return 'r';
-    const m = mosfets[el.index];
-    return `${m.polarity}${m.w},${m.l},${m.m},${lowerCaseModel(m.model)},${role(m.bulk)}`;
+    const i = mosSource[el.index];
+    return `${mos.polarityOf(i)}${mos.w[i]},${mos.l[i]},${mos.m[i]},${lowerCaseModel(mos.models[i])},${role(mos.bulk[i])}`;
   };
   const evalSig = deviceOf(d.evaluation);
   return d.keepers.map((k) => `${d.style}|${deviceOf(k.network)}|${evalSig}`);
@@ -240,7 +238,7 @@ function solve(d: DynamicNode, hood: Neighbourhood): ElectricalBudget[] {
   const levels = footerLevels(d);
   d.footers.forEach((e, i) => {
     const el = d.stage.elements[e];
-    held.set(index.alias[ctx.cell.mosfets[el.index].gate], levels[i]);
+    held.set(index.alias[ctx.cell.mosfets.gate[el.index]], levels[i]);
   });
   return ctx.deck.corners.map((corner) => {
     const base = { cell, corner, elements: hood.elements, railOf, alias: index.alias };
@@ -290,14 +288,9 @@ export function netCapacitance(ctx: CellContext, net: number, corner: Corner): n
   const cell = ctx.cell;
   const x = index.alias[net];
   let c = 0;
-  for (const i of index.channel.of(x)) {
-    const m = cell.mosfets[i];
-    c += (m.polarity === 'n' ? corner.nmos : corner.pmos).cjPerUm * m.w * m.m * 1e6;
-  }
-  for (const i of index.gates.of(x)) {
-    const m = cell.mosfets[i];
-    c += (m.polarity === 'n' ? corner.nmos : corner.pmos).cgPerUm * m.w * m.m * 1e6;
-  }
+  const mos = cell.mosfets;
+  for (const i of index.channel.of(x)) c += (mos.isN(i) ? corner.nmos : corner.pmos).cjPerUm * mos.w[i] * mos.m[i] * 1e6;
+  for (const i of index.gates.of(x)) c += (mos.isN(i) ? corner.nmos : corner.pmos).cgPerUm * mos.w[i] * mos.m[i] * 1e6;
   for (const i of index.others.of(x)) {
     const o = cell.others[i];
     if (o.kind === 'cap' && index.alias[o.a] !== index.alias[o.b]) c += o.value;

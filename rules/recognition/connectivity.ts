@@ -29,9 +29,10 @@ export function connectivityOf(ctx: CellContext): Connectivity {
     const groups = new UnionFind(n);
     const alias = index.alias;
     const connected = new Uint8Array(n);
-    for (const m of cell.mosfets) {
-      const d = alias[m.drain];
-      const s = alias[m.source];
+    const mos = cell.mosfets;
+    for (let i = 0; i < mos.length; i++) {
+      const d = alias[mos.drain[i]];
+      const s = alias[mos.source[i]];
       connected[d] = connected[s] = 1;
       groups.union(d, s);
     }

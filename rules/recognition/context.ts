@@ -42,12 +42,13 @@ export function localRails(design: Design, cell: Cell, deck: Deck): (RailKind | 
   if (!unnamedPorts && design.globals.size === 0) return rails;
   // Per net: bit 0 body of p, 1 body of n, 2 p channel, 3 n channel, 4 gate.
   const use = new Uint8Array(n);
-  for (const m of cell.mosfets) {
-    const p = m.polarity === 'p';
-    use[m.bulk] |= p ? 1 : 2;
-    use[m.drain] |= p ? 4 : 8;
-    use[m.source] |= p ? 4 : 8;
-    use[m.gate] |= 16;
+  const mos = cell.mosfets;
+  for (let i = 0; i < mos.length; i++) {
+    const p = !mos.isN(i);
+    use[mos.bulk[i]] |= p ? 1 : 2;
+    use[mos.drain[i]] |= p ? 4 : 8;
+    use[mos.source[i]] |= p ? 4 : 8;
+    use[mos.gate[i]] |= 16;
   }
   const candidate = new Uint8Array(n);
   for (const p of cell.ports) candidate[p] = 1;
@@ -281,11 +282,11 @@ function netListsOf(cell: Cell): CellNetLists {
   const n = cell.nets.length;
   const channel = new PairBuffer(cell.mosfets.length * 2);
   const gates = new PairBuffer(cell.mosfets.length);
-  for (let i = 0; i < cell.mosfets.length; i++) {
-    const m = cell.mosfets[i];
-    channel.push(alias[m.drain], i);
-    channel.push(alias[m.source], i);
-    gates.push(alias[m.gate], i);
+  const mos = cell.mosfets;
+  for (let i = 0; i < mos.length; i++) {
+    channel.push(alias[mos.drain[i]], i);
+    channel.push(alias[mos.source[i]], i);
+    gates.push(alias[mos.gate[i]], i);
   }
   const others = new PairBuffer(cell.others.length * 2);
   for (let i = 0; i < cell.others.length; i++) {

@@ -96,12 +96,12 @@ export interface DynamicNode {
 
 export function elementName(cell: Cell, stage: Stage, element: number): string {
   const el = stage.elements[element];
-  return el.kind === 'mos' ? cell.mosfets[el.index].name : cell.others[el.index].name;
+  return el.kind === 'mos' ? cell.mosfets.names[el.index] : cell.others[el.index].name;
 }
 
 export function elementLoc(cell: Cell, stage: Stage, element: number): SourceLoc {
   const el = stage.elements[element];
-  return el.kind === 'mos' ? cell.mosfets[el.index].loc : cell.others[el.index].loc;
+  return el.kind === 'mos' ? cell.mosfets.loc(el.index) : cell.others[el.index].loc;
 }
 
 /** Every dynamic node judged in this context (local ones, and those gathered across child instances). */
@@ -171,10 +171,11 @@ function regionCandidate(ctx: CellContext, index: CellIndex, net: number, dynami
   // A precharge device here with the evaluation devices in children.
   const channel = index.channel.of(net);
   for (let k = 0; k < channel.length; k++) {
-    const m = ctx.cell.mosfets[channel[k]];
-    const other = index.alias[m.drain] === net ? m.source : m.drain;
+    const mos = ctx.cell.mosfets;
+    const d = channel[k];
+    const other = index.alias[mos.drain[d]] === net ? mos.source[d] : mos.drain[d];
     const rail = index.railOf(other);
-    if (!index.railOf(m.gate) && ((m.polarity === 'p' && rail === 'power') || (m.polarity === 'n' && rail === 'ground'))) return true;
+    if (!index.railOf(mos.gate[d]) && (mos.isN(d) ? rail === 'ground' : rail === 'power')) return true;
   }
   return false;
 }
@@ -192,11 +193,9 @@ function recognise(ctx: CellContext, index: CellIndex, s: Stage, info: DynamicIn
   if (!preSide || !evalSide || !info.precharge.length) return null;
   const prePolarity = nEval ? 'p' : 'n';
   const onRail = nEval ? 'ground' : 'power';
-  const mos = (e: number) => (s.elements[e].kind === 'mos' ? cell.mosfets[s.elements[e].index] : null);
-  const gateOf = (e: number) => {
-    const m = mos(e);
-    return m ? index.alias[m.gate] : -1;
-  };
+  const isMos = (e: number) => s.elements[e].kind === 'mos';
+  const gateOf = (e: number) => (isMos(e) ? index.alias[cell.mosfets.gate[s.elements[e].index]] : -1);
+  const polarityOf = (e: number) => (isMos(e) ? cell.mosfets.polarityOf(s.elements[e].index) : undefined);
 
   const inverseOfNode = (g: number): boolean => {
     const d = index.stages.driverOf.get(g);
@@ -223,7 +222,7 @@ function recognise(ctx: CellContext, index: CellIndex, s: Stage, info: DynamicIn
   for (const b of branchesOf(preSide)) {
     if (b.kind === 'leaf' && precharge.includes(b.element)) continue;
     const elements = networkElements(b);
-    if (elements.some((e) => mos(e)?.polarity !== prePolarity)) {
+    if (elements.some((e) => polarityOf(e) !== prePolarity)) {
       unknown.push(...elements);
       continue;
     }
@@ -271,7 +270,7 @@ function recognise(ctx: CellContext, index: CellIndex, s: Stage, info: DynamicIn
   }
   const evalElements = networkElements(evaluation);
   const evalPolarity = nEval ? 'n' : 'p';
-  if (evalElements.some((e) => mos(e)?.polarity !== evalPolarity)) return null;
+  if (evalElements.some((e) => polarityOf(e) !== evalPolarity)) return null;
 
   const footers: number[] = [];
   const inputs: number[] = [];
@@ -308,7 +307,7 @@ function recognise(ctx: CellContext, index: CellIndex, s: Stage, info: DynamicIn
     else if (st.kind === 'dynamic') kind = 'evaluation';
     else if (RESTORING_KINDS.has(st.kind)) kind = 'static-gate';
     else kind = 'other-gate';
-    loads.push({ kind, device: cell.mosfets[i].name, stage: sid >= 0 ? sid : null });
+    loads.push({ kind, device: cell.mosfets.names[i], stage: sid >= 0 ? sid : null });
   }
   // Channels outside the node's own stage are loads, except devices that conduct only with the precharge (an equalizer
   // between two precharged lines) and devices to a net a restoring stage drives (a conditional evaluation path, such as
@@ -318,12 +317,12 @@ function recognise(ctx: CellContext, index: CellIndex, s: Stage, info: DynamicIn
   for (let k = 0; k < channel.length; k++) {
     const i = channel[k];
     if (own.has(i)) continue;
-    const m = cell.mosfets[i];
-    const far = index.alias[m.drain] === node ? index.alias[m.source] : index.alias[m.drain];
-    if (index.alias[m.gate] === info.clock) continue;
+    const mos = cell.mosfets;
+    const far = index.alias[mos.drain[i]] === node ? index.alias[mos.source[i]] : index.alias[mos.drain[i]];
+    if (index.alias[mos.gate[i]] === info.clock) continue;
     const d = index.stages.driverOf.get(far);
     if ((d !== undefined && RESTORING_KINDS.has(index.stages.stages[d].kind)) || drivenElsewhere.has(far)) continue;
-    loads.push({ kind: 'diffusion', device: m.name, stage: index.stageOfMos[i] >= 0 ? index.stageOfMos[i] : null });
+    loads.push({ kind: 'diffusion', device: mos.names[i], stage: index.stageOfMos[i] >= 0 ? index.stageOfMos[i] : null });
   }
   const os = index.others.of(node);
   for (let k = 0; k < os.length; k++) {

@@ -15,6 +15,7 @@
 // full low only if some branch is n-channel: an n-only device "degrades high", a
 // p-only one "degrades low", a transmission gate neither.
 
+import type { Mosfet } from '../../grammar/design';
 import type { Stage } from '../stages';
 import type { CellContext } from '../types';
 import { cellIndex, designMemo, portsAreLocal, RESTORING_KINDS } from './context';
@@ -71,9 +72,8 @@ export function passEdgesOf(ctx: CellContext): { edges: PassEdge[]; at: Map<numb
       const groups = new Map<string, PassEdge>();
       s.elements.forEach((el, e) => {
         if (el.kind !== 'mos') return;
-        const m = cell.mosfets[el.index];
-        const x = index.alias[m.drain];
-        const y = index.alias[m.source];
+        const x = index.alias[cell.mosfets.drain[el.index]];
+        const y = index.alias[cell.mosfets.source[el.index]];
         if (x === y) return;
         const [a, b] = x < y ? [x, y] : [y, x];
         const key = `${a},${b}`;
@@ -90,7 +90,7 @@ export function passEdgesOf(ctx: CellContext): { edges: PassEdge[]; at: Map<numb
         }
         g.elements.push(e);
         // A p-channel device passes a full high, an n-channel device a full low.
-        if (m.polarity === 'p') g.degradesHigh = false;
+        if (!cell.mosfets.isN(el.index)) g.degradesHigh = false;
         else g.degradesLow = false;
       });
     }
@@ -99,8 +99,8 @@ export function passEdgesOf(ctx: CellContext): { edges: PassEdge[]; at: Map<numb
 }
 
 /** The device of a chain step (a `stage.elements` index of the step's stage). */
-export function stepDevice(cell: CellContext['cell'], step: ChainStep, element: number): CellContext['cell']['mosfets'][number] {
-  return cell.mosfets[step.edge.stage.elements[element].index];
+export function stepDevice(cell: CellContext['cell'], step: ChainStep, element: number): Mosfet {
+  return cell.mosfets.at(step.edge.stage.elements[element].index);
 }
 
 /** Past this many nets a pass component is not searched from each receiver (a bus, not a chain). */
@@ -228,7 +228,7 @@ export function passedLevels(ctx: CellContext, chain: PassChain, corner: Corner)
     for (const e of st.edge.elements) {
       const el = s.elements[e];
       if (el.kind !== 'mos') continue;
-      const m = cell.mosfets[el.index];
+      const m = cell.mosfets.at(el.index);
       const model = r.get(m.polarity, m.model).model;
       const bulkRail = index.railOf(m.bulk);
       if (m.polarity === 'n' && st.edge.degradesHigh) {
@@ -263,7 +263,7 @@ export function elmoreDelay(ctx: CellContext, chain: PassChain, corner: Corner):
   const req = (s: Stage, e: number): number => {
     const el = s.elements[e];
     if (el.kind !== 'mos') return 0;
-    const m = cell.mosfets[el.index];
+    const m = cell.mosfets.at(el.index);
     const model = r.get(m.polarity, m.model).model;
     const vgt = Math.max(vdd - model.vt0, 1e-3);
     const vmin = model.kind === 'velocity-saturated' ? Math.min(vgt, model.vdsat) : vgt;

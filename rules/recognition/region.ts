@@ -15,7 +15,8 @@
 // where ports are local too). A cell that only sees the net as a port leaves it to the
 // parent, which sees all of it.
 
-import type { Capacitor, Cell, Mosfet, RailKind, Resistor, SourceLoc } from '../../grammar/design';
+import type { Capacitor, Cell, RailKind, Resistor, SourceLoc } from '../../grammar/design';
+import { MosfetTable } from '../../grammar/mosfet-table';
 import type { CellContext } from '../types';
 import { cellIndex, childContext, designMemo, makeContext, netIndex, pinRails, RESTORING_KINDS, terminalsOf, type CellIndex } from './context';
 import { primeClockHint, timingOf, type Timing } from './timing';
@@ -60,11 +61,12 @@ export function prechargePorts(ctx: CellContext, instance: number): Uint8Array {
       if (index.railOf(net)) return;
       const devices = index.channel.of(net);
       for (let k = 0; k < devices.length && !out[j]; k++) {
-        const m = cell.mosfets[devices[k]];
-        const other = index.alias[m.drain] === net ? m.source : m.drain;
+        const mos = cell.mosfets;
+        const d = devices[k];
+        const other = index.alias[mos.drain[d]] === net ? mos.source[d] : mos.drain[d];
         const rail = index.railOf(other);
-        if (index.railOf(m.gate)) continue;
-        if ((m.polarity === 'p' && rail === 'power') || (m.polarity === 'n' && rail === 'ground')) out[j] = 1;
+        if (index.railOf(mos.gate[d])) continue;
+        if (mos.isN(d) ? rail === 'ground' : rail === 'power') out[j] = 1;
       }
       if (out[j]) return;
       const insts = index.pinInstances.of(net);
@@ -115,7 +117,7 @@ function build(ctx: CellContext, start: number): Region | null {
   /** Synthetic net of each (level path, local alias root). */
   const ids = new Map<string, number>();
   const rootNets = new Map<number, number>();
-  const mosfets: Mosfet[] = [];
+  const mosfets = new MosfetTable();
   const others: (Resistor | Capacitor)[] = [];
   const addedMos = new Set<string>();
   const addedOther = new Set<string>();
@@ -172,7 +174,7 @@ function build(ctx: CellContext, start: number): Region | null {
       tooLarge = true;
       return;
     }
-    const m = level.ctx.cell.mosfets[i];
+    const m = level.ctx.cell.mosfets.at(i);
     if (level.path) paths.add(level.path.slice(0, -1));
     mosfets.push({
       ...m,
@@ -204,9 +206,9 @@ function build(ctx: CellContext, start: number): Region | null {
     const channel = index.channel.of(x);
     for (let k = 0; k < channel.length; k++) {
       const i = channel[k];
-      const m = cell.mosfets[i];
       addMos(level, i);
-      const other = index.alias[m.drain] === x ? index.alias[m.source] : index.alias[m.drain];
+      const drain = index.alias[cell.mosfets.drain[i]];
+      const other = drain === x ? index.alias[cell.mosfets.source[i]] : drain;
       if (index.railOf(other) || other === x) continue;
       if (index.gates.count(other) > 0 || index.isPort[other] || index.pinInstances.count(other) > 0) {
         idOf(level, other);

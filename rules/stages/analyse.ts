@@ -267,12 +267,15 @@ export function stageCircuit(
       parts.push(`r${g}`);
       continue;
     }
-    const m = cell.mosfets[el.index];
-    const resolved = resolver.get(m.polarity, m.model);
-    used.set(m.polarity + '|' + m.model.toLowerCase(), { polarity: m.polarity, model: m.model, resolved });
-    const beta = (resolved.model.kPrime * m.w * m.m) / m.l;
-    const gate = nodeOf(alias[m.gate]);
-    const bulk = nodeOf(alias[m.bulk], m.polarity);
+    const mos = cell.mosfets;
+    const d = el.index;
+    const polarity = mos.polarityOf(d);
+    const model = mos.models[d];
+    const resolved = resolver.get(polarity, model);
+    used.set(polarity + '|' + model.toLowerCase(), { polarity, model, resolved });
+    const beta = (resolved.model.kPrime * mos.w[d] * mos.m[d]) / mos.l[d];
+    const gate = nodeOf(alias[mos.gate[d]]);
+    const bulk = nodeOf(alias[mos.bulk[d]], polarity);
     elements.push({ kind: 'mos', model: resolved.model, beta, gate, bulk });
     parts.push(`m${beta}|${gate}|${bulk}|${memo ? modelKey(memo, resolved) : ''}`);
   }
@@ -383,14 +386,15 @@ class SignatureEncoder extends NumberKey {
         this.push(TAG_RES);
         this.push(r.kind === 'res' ? r.value : 0);
       } else {
-        const m = cell.mosfets[el.index];
-        this.push(m.polarity === 'n' ? TAG_N : TAG_P);
-        this.push(m.w);
-        this.push(m.l);
-        this.push(m.m);
-        this.push(modelCode(m.model));
-        this.push(this.role(alias[m.gate]));
-        this.push(this.role(alias[m.bulk]));
+        const mos = cell.mosfets;
+        const k = el.index;
+        this.push(mos.isN(k) ? TAG_N : TAG_P);
+        this.push(mos.w[k]);
+        this.push(mos.l[k]);
+        this.push(mos.m[k]);
+        this.push(modelCode(mos.models[k]));
+        this.push(this.role(alias[mos.gate[k]]));
+        this.push(this.role(alias[mos.bulk[k]]));
       }
     }
     this.shape(stage.pullUp);

@@ -56,14 +56,16 @@ export class StageLogic {
         polarity[i] = 'r';
         continue;
       }
-      const m = cell.mosfets[el.index];
-      const g = alias ? alias[m.gate] : m.gate;
+      const mos = cell.mosfets;
+      const d = el.index;
+      const g = alias ? alias[mos.gate[d]] : mos.gate[d];
+      const isN = mos.isN(d);
       gate[i] = g;
-      polarity[i] = m.polarity;
-      nChannel[i] = m.polarity === 'n' ? 1 : 0;
+      polarity[i] = isN ? 'n' : 'p';
+      nChannel[i] = isN ? 1 : 0;
       const r = railOf(g);
       if (r) {
-        state[i] = (r === 'power') === (m.polarity === 'n') ? ALWAYS : NEVER;
+        state[i] = (r === 'power') === isN ? ALWAYS : NEVER;
         tiedToRail[i] = 1;
         continue;
       }

@@ -59,15 +59,15 @@ export function extractStages(cell: Cell, rails: readonly (RailKind | undefined)
   const edgePolarity = new Uint8Array(total);
   const edgeIndex = new Int32Array(total);
   let edgeCount = 0;
-  for (let i = 0; i < cell.mosfets.length; i++) {
-    const m = cell.mosfets[i];
-    const a = alias[m.drain];
-    const b = alias[m.source];
+  const mos = cell.mosfets;
+  for (let i = 0; i < mos.length; i++) {
+    const a = alias[mos.drain[i]];
+    const b = alias[mos.source[i]];
     if (railCode[a] && railCode[b]) continue; // both ends on rails: a decoupling or tie device, no stage
     edgeA[edgeCount] = a;
     edgeB[edgeCount] = b;
-    edgeGate[edgeCount] = alias[m.gate];
-    edgePolarity[edgeCount] = m.polarity === 'n' ? POLARITY_N : POLARITY_P;
+    edgeGate[edgeCount] = alias[mos.gate[i]];
+    edgePolarity[edgeCount] = mos.isN(i) ? POLARITY_N : POLARITY_P;
     edgeIndex[edgeCount++] = i;
   }
   const firstResistor = edgeCount;
@@ -84,11 +84,12 @@ export function extractStages(cell: Cell, rails: readonly (RailKind | undefined)
     edgeIndex[edgeCount++] = i;
   }
   const elementOf = (e: number): StageElement => ({ kind: e < firstResistor ? 'mos' : 'res', index: edgeIndex[e] });
-  const locOf = (e: number): SourceLoc => (e < firstResistor ? cell.mosfets[edgeIndex[e]].loc : cell.others[edgeIndex[e]].loc);
+  const locOf = (e: number): SourceLoc => (e < firstResistor ? mos.loc(edgeIndex[e]) : cell.others[edgeIndex[e]].loc);
+  const fileOf = (e: number): string => (e < firstResistor ? mos.file(edgeIndex[e]) : cell.others[edgeIndex[e]].loc.file);
 
   // Observed nets.
   const observed = new Uint8Array(netCount);
-  for (const m of cell.mosfets) observed[alias[m.gate]] = 1;
+  for (let i = 0; i < mos.length; i++) observed[alias[mos.gate[i]]] = 1;
   for (const p of cell.ports) observed[alias[p]] = 1;
   for (const inst of cell.instances) for (const p of inst.pins) observed[alias[p]] = 1;
   const railNeighbours = new Uint8Array(netCount);
@@ -283,8 +284,8 @@ export function extractStages(cell: Cell, rails: readonly (RailKind | undefined)
     // Transistors come in netlist order already; only mixed or multi-file stages need the full comparison.
     if (sorted.length > 1) {
       let plain = true;
-      const file = locOf(sorted[0]).file;
-      for (const e of sorted) if (e >= firstResistor || locOf(e).file !== file) plain = false;
+      const file = fileOf(sorted[0]);
+      for (const e of sorted) if (e >= firstResistor || fileOf(e) !== file) plain = false;
       if (plain) sortAscending(sorted);
       else sorted.sort(byLoc);
     }

@@ -16,7 +16,7 @@ export function transferPlot(r: TransferResult): z.infer<typeof transferPlotSche
 }
 
 export function stageDeviceNames(cell: Cell, stage: Stage): string[] {
-  return stage.elements.map((e) => (e.kind === 'mos' ? cell.mosfets[e.index].name : cell.others[e.index].name));
+  return stage.elements.map((e) => (e.kind === 'mos' ? cell.mosfets.names[e.index] : cell.others[e.index].name));
 }
 
 export function heldText(cell: Cell, held: readonly HeldInput[]): string {

@@ -109,7 +109,7 @@ describe('keeper strength', () => {
 
   it('on-currents are square-law saturation currents k′/2·(W/L)·(VDD − VT)²; the ratio is keeper over weakest path', () => {
     const { cell, a, stage } = dynamicStage(flat);
-    const keeperIndex = stage.elements.findIndex((e) => cell.mosfets[e.index].name === 'MK');
+    const keeperIndex = stage.elements.findIndex((e) => cell.mosfets.at(e.index).name === 'MK');
     const keeper: Network = { kind: 'leaf', element: keeperIndex, a: -1, b: stage.output! };
     const input = { cell, corner: flat, elements: stage.elements, railOf: a.env.railOf, models: a.design.models, useNetlistModels: true };
     const r = keeperRatio(input, keeper, stage.pullDown!);

@@ -99,6 +99,6 @@ describe('keepwell stages', () => {
     expect(a.map((s) => [s.kind, parsed.nets[s.output!], s.inputs.map((n) => parsed.nets[n])])).toEqual(
       b.map((s) => [s.kind, built.nets[s.output!], s.inputs.map((n) => built.nets[n])]),
     );
-    expect(parsed.mosfets.map((m) => [m.polarity, m.w, m.l])).toEqual(built.mosfets.map((m) => [m.polarity, m.w, m.l]));
+    expect([...parsed.mosfets].map((m) => [m.polarity, m.w, m.l])).toEqual([...built.mosfets].map((m) => [m.polarity, m.w, m.l]));
   });
 });

@@ -16,7 +16,7 @@ function stagesOf(b: CellBuilder, isClock?: (net: number) => boolean) {
   const cell = b.build();
   const stages = extractStages(cell, localRails(designOf([cell]), cell, deck), { isClock });
   const names = (nets: number[]) => nets.map((n) => cell.nets[n]);
-  const devices = (st: Stage, els = st.elements.map((_, i) => i)) => els.map((i) => cell.mosfets[st.elements[i].index]?.name ?? cell.others[st.elements[i].index].name);
+  const devices = (st: Stage, els = st.elements.map((_, i) => i)) => els.map((i) => (st.elements[i].kind === 'mos' ? cell.mosfets.names[st.elements[i].index] : undefined) ?? cell.others[st.elements[i].index].name);
   const driving = (net: string) => stages.stages.find((st) => st.output === cell.netIndex.get(net))!;
   return { cell, stages, names, devices, driving };
 }
@@ -61,11 +61,9 @@ describe('stage extraction', () => {
     const cell = new CellBuilder('buf', ['a', 'y', 'vdd', 'vss'])
       .nmos('MN1', 'x', 'a', 'vss', 'vss', s)
       .pmos('MP1', 'x', 'a', 'vdd', 'vdd', s)
-      .pmos('MP2', 'y', 'x', 'vdd', 'vdd', s)
-      .nmos('MN2', 'y', 'x', 'vss', 'vss', s)
+      .pmos('MP2', 'y', 'x', 'vdd', 'vdd', { ...s, at: { file: 'lib/inv.sp', line: 8, column: 1 } })
+      .nmos('MN2', 'y', 'x', 'vss', 'vss', { ...s, at: { file: 'lib/inv.sp', line: 9, column: 1 } })
       .build();
-    cell.mosfets[2].loc = { file: 'lib/inv.sp', line: 8, column: 1 };
-    cell.mosfets[3].loc = { file: 'lib/inv.sp', line: 9, column: 1 };
     const rails = localRails(designOf([cell]), cell, deck);
     const rank = (order: string[]) => (f: string) => order.indexOf(f);
     const ordered = (order: string[]) => extractStages(cell, rails, { fileRank: rank(order) }).stages.map((st) => cell.nets[st.output!]);

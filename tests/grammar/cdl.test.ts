@@ -133,7 +133,7 @@ describe('extracted netlists', () => {
     expect(d.diagnostics).toEqual([]);
     const c = cell(d, 'nor2');
     expect(c.instances).toEqual([]);
-    expect(c.mosfets.map((m) => m.polarity).join('')).toBe('nnpp');
+    expect([...c.mosfets].map((m) => m.polarity).join('')).toBe('nnpp');
     const x2 = mos(c, 'X2');
     expect(terminals(c, x2)).toEqual(['a_109_297#', 'A', 'VPWR', 'VPB']);
     expect(close(x2.w, 1e-6) && close(x2.l, 0.15e-6)).toBe(true);

@@ -19,7 +19,7 @@ export function cell(design: Design, key: string): Cell {
 }
 
 export function mos(c: Cell, name: string): Mosfet {
-  const m = c.mosfets.find((x) => x.name === name);
+  const m = [...c.mosfets].find((x) => x.name === name);
   if (!m) throw new Error(`no MOSFET ${name} in ${c.key}`);
   return m;
 }

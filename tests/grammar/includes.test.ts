@@ -18,7 +18,7 @@ describe('includes', () => {
     expect(d.diagnostics).toEqual([]);
     // The included file's devices land in the subcircuit that includes them, located in their own file.
     const inv = cell(d, 'inv');
-    expect(inv.mosfets.map((m) => `${m.name}@${m.loc.file}:${m.loc.line}`)).toEqual(['Mn@lib/devices/pair.inc:1', 'Mp@lib/devices/pair.inc:2']);
+    expect([...inv.mosfets].map((m) => `${m.name}@${m.loc.file}:${m.loc.line}`)).toEqual(['Mn@lib/devices/pair.inc:1', 'Mp@lib/devices/pair.inc:2']);
     expect(inv.nets).toEqual(['a', 'y', '0', 'vdd']);
     // Entry files are those nobody includes; the title rule does not apply to included files.
     expect(d.roots).toEqual([TOP_LEVEL_CELL]);
@@ -50,7 +50,7 @@ describe('includes', () => {
       'models.lib': lines('* corner library', '.lib ff', '.model fet pmos level=1', '.endl ff', '.lib tt', '.model fet nmos level=1', '.endl tt'),
     });
     expect(d.diagnostics).toEqual([]);
-    expect(cell(d, TOP_LEVEL_CELL).mosfets[0].polarity).toBe('n');
+    expect(cell(d, TOP_LEVEL_CELL).mosfets.at(0).polarity).toBe('n');
     const missing = read({ 'top.sp': lines('* deck', '.lib models.lib ss'), 'models.lib': lines('.lib tt', '.endl') });
     expect(codes(missing)).toEqual(['lib-section-not-found']);
   });

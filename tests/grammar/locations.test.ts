@@ -65,7 +65,7 @@ describe('lazy source locations', () => {
       expect(m.loc.file).toBe(fromInclude ? 'parts/tail.inc' : 'tarnby.sp');
     }
     // Each read gives the same place.
-    const first = c.mosfets[0];
+    const first = c.mosfets.at(0);
     expect({ ...first.loc }).toEqual({ ...first.loc });
   });
 

@@ -129,7 +129,7 @@ describe('SPICE numbers', () => {
     const d = read('* overflow\nM1 d g s b nch w=1e999 l=0.15u\n');
     expect(where(d)).toEqual(['non-finite-number@2:18']);
     // The device with the unreadable width is left out rather than given a made-up one.
-    expect([...d.cells.values()].flatMap((c) => c.mosfets)).toHaveLength(0);
+    expect([...d.cells.values()].flatMap((c) => [...c.mosfets])).toHaveLength(0);
   });
 
   it('applies 1M as milli on a real device line', () => {

@@ -29,7 +29,7 @@ describe('MOSFET rows beyond the first table block', () => {
   it('keeps every row, in order, with its own nodes', () => {
     expect(design.diagnostics).toEqual([]);
     expect(blk.mosfets).toHaveLength(rows);
-    blk.mosfets.forEach((m, r) => {
+    [...blk.mosfets].forEach((m, r) => {
       expect(m.name).toBe(`M${r}`);
       expect(terminals(blk, m)).toEqual([`n${r}`, 'a', `n${r + 1}`, r % 2 === 0 ? 'vss' : 'vdd']);
       expect(m.polarity).toBe(r % 2 === 0 ? 'n' : 'p');
@@ -37,7 +37,7 @@ describe('MOSFET rows beyond the first table block', () => {
   });
 
   it('reads expressions and plain sizes of each row, scale applied (.option scale)', () => {
-    blk.mosfets.forEach((m, r) => {
+    [...blk.mosfets].forEach((m, r) => {
       const w = r % 3 === 0 ? 2 * 0.5 : (r % 7) + 1;
       expect(close(m.w, w * 1e-6)).toBe(true);
       expect(close(m.l, 0.15e-6)).toBe(true);
@@ -45,7 +45,7 @@ describe('MOSFET rows beyond the first table block', () => {
   });
 
   it('gives junction parameters only to the rows that have them, AS scaled by scale squared', () => {
-    blk.mosfets.forEach((m, r) => {
+    [...blk.mosfets].forEach((m, r) => {
       if (r % 5 === 0) {
         expect(Object.keys(m.params).sort()).toEqual(['as', 'ps']);
         expect(close(m.params.as, (r % 4 + 1) * 1e-12)).toBe(true);
@@ -56,7 +56,7 @@ describe('MOSFET rows beyond the first table block', () => {
 
   it('locates each row on its own line', () => {
     // Line 4 is the first M line (after .option, .param and .subckt).
-    blk.mosfets.forEach((m, r) => expect([m.loc.line, m.loc.column]).toEqual([4 + r, 1]));
+    [...blk.mosfets].forEach((m, r) => expect([m.loc.line, m.loc.column]).toEqual([4 + r, 1]));
   });
 });
 
@@ -70,7 +70,7 @@ describe('model names as written', () => {
     const d = read(text.join('\n') + '\n');
     expect(d.diagnostics).toEqual([]);
     const c = cell(d, 'm');
-    c.mosfets.forEach((m, r) => {
+    [...c.mosfets].forEach((m, r) => {
       const written = models[(r * 5 + (r >> 3)) % models.length];
       expect(m.model).toBe(written);
       // Case-insensitive lookup of the .model card decides the polarity.

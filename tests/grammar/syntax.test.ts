@@ -95,7 +95,7 @@ describe('statements and lines', () => {
     );
     const top = cell(d, TOP_LEVEL_CELL);
     expect(mos(top, 'M1').w).toBeCloseTo(1e-6, 18);
-    expect(top.mosfets.map((m) => m.name)).toEqual(['M1', 'M2']);
+    expect([...top.mosfets].map((m) => m.name)).toEqual(['M1', 'M2']);
     expect(mos(top, 'M2').l).toBe(1e-6);
     expect(top.others).toMatchObject([{ name: 'R1', value: 1e3, model: 'rpoly' }]);
     expect(d.diagnostics).toEqual([]);
@@ -258,7 +258,7 @@ describe('subcircuits, parameters, models, options', () => {
       ),
     );
     const top = cell(d, TOP_LEVEL_CELL);
-    expect(top.mosfets.map((m) => [m.name, m.polarity])).toEqual([
+    expect([...top.mosfets].map((m) => [m.name, m.polarity])).toEqual([
       ['M1', 'n'],
       ['M2', 'p'],
       ['M3', 'p'],
@@ -283,7 +283,7 @@ describe('subcircuits, parameters, models, options', () => {
     );
     expect(d.diagnostics).toEqual([]);
     const c = cell(d, 'cell');
-    expect(c.mosfets.map((m) => m.polarity)).toEqual(['n']);
+    expect([...c.mosfets].map((m) => m.polarity)).toEqual(['n']);
     expect(c.others).toEqual([]);
   });
 

@@ -3,12 +3,15 @@
 // (the `.subckt` line is line 1) so anchors can be checked.
 
 import type { Capacitor, Cell, Design, ModelCard, Mosfet, Resistor, SourceLoc } from '../../grammar/design';
+import { MosfetTable } from '../../grammar/mosfet-table';
 
 export interface MosSize {
   w: number;
   l: number;
   m?: number;
   model?: string;
+  /** Where the device is written, when not on the builder's next line of its own file. */
+  at?: SourceLoc;
 }
 
 export class CellBuilder {
@@ -60,7 +63,7 @@ export class CellBuilder {
       m: size.m ?? 1,
       nf: 1,
       params: {},
-      loc: this.loc(),
+      loc: size.at ?? this.loc(),
     };
     this.mosfets.push(device);
     return this;
@@ -97,7 +100,7 @@ export class CellBuilder {
       nets: this.nets.slice(),
       netIndex: new Map(this.netIndex),
       netLocs: this.netLocs.slice(),
-      mosfets: this.mosfets.slice(),
+      mosfets: MosfetTable.from(this.mosfets),
       others: this.others.slice(),
       instances: [],
       loc: { file: this.file, line: 1, column: 1 },
