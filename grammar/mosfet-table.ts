@@ -132,7 +132,7 @@ export class MosfetTable implements Iterable<Mosfet> {
     return { file: this.files[this.fileCode[i]], line: this.line[i], column: this.column[i] };
   }
 
-  /** Device `i` as a record of its own (a copy: changing it leaves the table as it is). */
+  /** Device `i` as a record of its own: changing its fields leaves the table as it is (its `params` object is the table's). */
   at(i: number): Mosfet {
     return {
       kind: 'mos',

@@ -10,6 +10,7 @@ import { describe, expect, it } from 'vitest';
 import { parseNetlist } from '../../grammar/parser';
 import { NameTable } from '../../grammar/names';
 import { foldAscii } from '../../grammar/text-hash';
+import { MosfetTable } from '../../grammar/mosfet-table';
 import { cell, close, read, terminals } from './helpers';
 
 describe('MOSFET rows beyond the first table block', () => {
@@ -122,5 +123,41 @@ describe('line structure', () => {
       }),
       { numRuns: 300 },
     );
+  });
+});
+
+describe("a cell's MOSFET columns (MosfetTable)", () => {
+  const table = new MosfetTable(1); // room for one: every further row grows the columns
+  const files = ['top.sp', 'lib/cells.inc', 'top.sp'];
+  for (let i = 0; i < 40; i++) {
+    table.add(i % 2 ? 'p' : 'n', `M${i}`, i, i + 1, i + 2, i % 2 ? 100 : 101, i % 2 ? 'pch' : 'nch', (i + 1) * 1e-7, 1.5e-7, 1 + (i % 3), 1, i === 7 ? { as: 2e-13 } : undefined, files[i % 3], 10 + i, 1 + (i % 4));
+  }
+
+  it('gives each row back as written, its file and location included', () => {
+    expect(table.length).toBe(40);
+    const m = table.at(7);
+    expect(m).toEqual({
+      kind: 'mos', polarity: 'p', name: 'M7', drain: 7, gate: 8, source: 9, bulk: 100, model: 'pch',
+      w: 8e-7, l: 1.5e-7, m: 2, nf: 1, params: { as: 2e-13 }, loc: { file: 'lib/cells.inc', line: 17, column: 4 },
+    });
+    expect(table.at(8).params).toEqual({});
+    expect([...table].map((x) => x.loc.file)).toEqual(Array.from({ length: 40 }, (_, i) => files[i % 3]));
+  });
+
+  it('hands out copies: changing a record leaves the table as it is', () => {
+    const m = table.at(3);
+    m.w = 1;
+    m.loc.line = 1;
+    expect(table.w[3]).toBeCloseTo(4e-7, 20);
+    expect(table.loc(3).line).toBe(13);
+  });
+
+  it('takes a subset in the order asked, and renumbers terminals of its own', () => {
+    const sub = table.subset([5, 2, 5]);
+    expect([...sub].map((x) => x.name)).toEqual(['M5', 'M2', 'M5']);
+    expect(sub.at(1)).toEqual(table.at(2));
+    sub.remapNets((net) => net + 1000);
+    expect([sub.drain[0], sub.gate[0], sub.source[0], sub.bulk[0]]).toEqual([1005, 1006, 1007, 1100]);
+    expect(table.drain[5]).toBe(5);
   });
 });
