@@ -309,16 +309,17 @@ export function extractStages(cell: Cell, rails: readonly (RailKind | undefined)
     const internal: number[] = [];
     for (const x of stageNets) if (!terminals.includes(x)) internal.push(x);
     sortAscending(internal);
+    // Copies of exact length: stages live as long as the check, and an array grown by push keeps room for 17.
     return {
       id: stages.length,
       component: components.find(sorted[0]),
       kind,
       output,
       terminals,
-      inputs,
-      feedback,
+      inputs: inputs.length ? inputs.slice() : inputs,
+      feedback: feedback.length ? feedback.slice() : feedback,
       elements,
-      internal,
+      internal: internal.length ? internal.slice() : internal,
       pullUp: null,
       pullDown: null,
       channel: null,

@@ -29,7 +29,7 @@ function parallel(edges: Network[]): Network {
     if (oriented.kind === 'parallel') children.push(...oriented.children);
     else children.push(oriented);
   }
-  return { kind: 'parallel', a, b, children };
+  return { kind: 'parallel', a, b, children: children.slice() };
 }
 
 function leavesOf(n: Network, out: number[]) {
@@ -69,7 +69,8 @@ function directNetwork(edges: readonly Network[], from: number, to: number): Net
   }
   if (children.length !== edges.length || nodes.includes(from)) return null;
   for (let i = 0; i < nodes.length; i++) if (nodes.indexOf(nodes[i]) !== i) return null;
-  return { kind: 'series', a: from, b: to, children, nodes };
+  // Copies of exact length: the networks live as long as the check, and an array grown by push keeps room for 17.
+  return { kind: 'series', a: from, b: to, children: children.slice(), nodes: nodes.slice() };
 }
 
 /** Reduce `edges` between terminals `from` and `to`; the result runs from `from` (a) to `to` (b). */
