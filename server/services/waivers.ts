@@ -341,11 +341,16 @@ async function markRevoked(ctx: Ctx, actor: WaiverActor, id: string, reason: str
   );
 }
 
-/** Withdraw a request or end an approved waiver; the row stays, with who revoked it, when and why. */
-export async function revokeWaiver(ctx: Ctx, actor: WaiverActor, id: string, reason: string): Promise<WaiverView> {
+/**
+ * End an approved waiver, or cancel a pending request as someone who cannot decide it (an admin); the row stays, with
+ * who revoked it, when and why. Whoever can decide a pending request rejects it instead, so that the designer reads a
+ * decision and its reason, not a revocation.
+ */
+export async function revokeWaiver(ctx: Ctx, actor: WaiverActor & { mayDecide: boolean }, id: string, reason: string): Promise<WaiverView> {
   const now = waiverClock.now();
   await ctx.sequelize.transaction(async (transaction) => {
     const w = await lockWaiver(ctx, actor.teamId, id, ['requested', 'approved'], transaction);
+    if (w.state === 'requested' && actor.mayDecide) throw conflict('The request is still pending: reject it, with a reason for the designer, instead of revoking it.');
     await markRevoked(ctx, actor, id, reason, now, transaction);
     await recordAudit({ teamId: actor.teamId, actorId: actor.id, action: 'waiver.revoke', subjectType: 'waiver', subjectId: id, detail: { reason, was: w.state } }, transaction);
     const revoked = await waiverRow(ctx, actor.teamId, id, transaction);

@@ -324,4 +324,25 @@ describe('withdrawing a request', () => {
     await reviewer.agent.post(`/api/waivers/${approved.id}/approve`).send({ comment: '' }).expect(200);
     await designer.agent.post(`/api/waivers/${approved.id}/withdraw`).send({ reason: 'changed my mind' }).expect(409);
   });
+
+  it('a reviewer rejects a pending request rather than revoking it; an admin, who cannot decide, may cancel it', async () => {
+    const team = await createTeam();
+    await sizeOnlyTeamDeck(team);
+    const blockId = (await heronBlock(team)).id;
+    const designer = await signedInAs(env, team, ['designer']);
+    const reviewer = await signedInAs(env, team, ['reviewer']);
+    const admin = await signedInAs(env, team, ['admin']);
+    const run = await finishedRun(designer.agent, blockId, heronColumn());
+    const f = inCell(await findings(designer.agent, run), 'hcol_pre');
+    const asked = (await designer.agent.post('/api/waivers').send({ runId: run, findingId: f.id, scope: 'finding', justification: 'Sized for the slow corner only; see the column sizing note.' }).expect(201))
+      .body as WaiverView;
+
+    const refused = await reviewer.agent.post(`/api/waivers/${asked.id}/revoke`).send({ reason: 'not this way' }).expect(409);
+    expect(refused.body.error.message).toMatch(/reject it/);
+    expect((await reviewer.agent.get(`/api/waivers/${asked.id}`).expect(200)).body).toMatchObject({ state: 'requested', revoker: null });
+
+    const cancelled = (await admin.agent.post(`/api/waivers/${asked.id}/revoke`).send({ reason: 'The requester has left the project.' }).expect(200)).body;
+    expect(cancelled).toMatchObject({ state: 'revoked', revoker: { id: admin.user.id }, revokeReason: 'The requester has left the project.' });
+    expect(inCell(await findings(designer.agent, run), 'hcol_pre')).toMatchObject({ status: 'open', waiver: null });
+  });
 });

@@ -16,7 +16,7 @@ import {
 import type { AppContext } from '../../context';
 import { createWaiver, decideWaiver, getWaiver, listWaivers, revokeWaiver, waiversOfFinding, withdrawWaiverRequest } from '../../services/waivers';
 import { parseRequest } from '../http';
-import { requirePermission, signedIn, teamIdOf } from '../middleware/auth';
+import { allows, requirePermission, signedIn, teamIdOf } from '../middleware/auth';
 
 const findingRefSchema = z.object({ runId: z.string().uuid(), findingId: z.coerce.number().int().min(1) });
 
@@ -61,7 +61,7 @@ export function waiverRoutes(ctx: AppContext): Router {
 
   router.post('/:id/revoke', requirePermission('waiver.revoke'), async (req, res) => {
     const { params, body } = parseRequest(req, { params: idParamSchema, body: revokeWaiverBodySchema });
-    res.json(await revokeWaiver(ctx, actorOf(req), params.id, body.reason));
+    res.json(await revokeWaiver(ctx, { ...actorOf(req), mayDecide: allows(signedIn(req), 'waiver.decide') }, params.id, body.reason));
   });
 
   // The requester's own pending request only (checked in the service).
