@@ -29,13 +29,13 @@ export class MosfetTable implements Iterable<Mosfet> {
   /** 1-based physical line and column of each device's element name. */
   line: Int32Array;
   column: Int32Array;
-  private fileCode: Uint16Array;
+  private fileCode: Int32Array;
   /** Element names as written. */
   readonly names: string[] = [];
   /** Model or PDK device names as written. */
   readonly models: string[] = [];
   private readonly files: string[] = [];
-  /** Other parameters of each device (a shared empty record for most). */
+  /** Other numeric parameters of each device (as, ad, ps, pd, …; a shared empty record for most), read through `at`. */
   private readonly paramList: Record<string, number>[] = [];
 
   constructor(capacity = 16) {
@@ -51,7 +51,7 @@ export class MosfetTable implements Iterable<Mosfet> {
     this.nf = new Float64Array(n);
     this.line = new Int32Array(n);
     this.column = new Int32Array(n);
-    this.fileCode = new Uint16Array(n);
+    this.fileCode = new Int32Array(n);
   }
 
   static from(mosfets: Iterable<Mosfet>): MosfetTable {
@@ -119,11 +119,6 @@ export class MosfetTable implements Iterable<Mosfet> {
     return this.polarityCode[i] === POLARITY_N ? 'n' : 'p';
   }
 
-  /** Other numeric parameters (as, ad, ps, pd, …), lower-case keys. */
-  params(i: number): Readonly<Record<string, number>> {
-    return this.paramList[i];
-  }
-
   file(i: number): string {
     return this.files[this.fileCode[i]];
   }
@@ -170,19 +165,18 @@ export class MosfetTable implements Iterable<Mosfet> {
     const files = this.files;
     // Devices of one cell come from one file or a few: the last one is nearly always the one.
     for (let k = files.length - 1; k >= 0; k--) if (files[k] === file) return k;
-    if (files.length === 0xffff) throw new Error('a cell spans more than 65,535 files');
     return files.push(file) - 1;
   }
 
   private grow(): void {
     const n = this.drain.length * 2;
-    const grow = <T extends Uint8Array | Uint16Array | Int32Array | Float64Array>(a: T, make: (n: number) => T): T => {
+    const grow = <T extends Uint8Array | Int32Array | Float64Array>(a: T, make: (n: number) => T): T => {
       const b = make(n);
       b.set(a);
       return b;
     };
     this.polarityCode = grow(this.polarityCode, (k) => new Uint8Array(k));
-    this.fileCode = grow(this.fileCode, (k) => new Uint16Array(k));
+    this.fileCode = grow(this.fileCode, (k) => new Int32Array(k));
     this.drain = grow(this.drain, (k) => new Int32Array(k));
     this.gate = grow(this.gate, (k) => new Int32Array(k));
     this.source = grow(this.source, (k) => new Int32Array(k));
