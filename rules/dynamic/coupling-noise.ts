@@ -4,6 +4,7 @@ import { dynamicBudgets, hierarchicalCapacitance, netCapacitance, thresholdOf } 
 import { cellIndex } from '../recognition/context';
 import { dynamicNodesOf, type DynamicNode } from '../recognition/dynamic';
 import { allowedSwing, budgetPlot, f, netOf, nodeDevices, nodeLabel, thresholdText, v, worstBy, type BudgetBar } from '../recognition/report';
+import { isMosElement } from '../stages';
 
 interface Aggressor {
   net: number;
@@ -80,8 +81,8 @@ export default defineRule({
         // The node itself only falls during evaluation, which pulls its inputs down: not an aggressor for a low input.
         const on = aggressorsOn(d, g).filter((x) => x.net !== index.alias[d.node]);
         if (!on.length) continue;
-        const el = d.stage.elements.find((x) => x.kind === 'mos' && index.alias[cell.mosfets.gate[x.index]] === g);
-        const device = el ? cell.mosfets.at(el.index) : null;
+        const el = d.stage.elements.find((x) => isMosElement(x) && index.alias[cell.mosfets.gate[x]] === g);
+        const device = el !== undefined ? cell.mosfets.at(el) : null;
         if (!device) continue;
         const cc = on.reduce((sum, x) => sum + x.capacitance, 0);
         const per = ctx.deck.corners.map((corner) => {

@@ -5,6 +5,7 @@ import { describeTiming, timingOf, UNKNOWN } from '../recognition/timing';
 import { netOf, nodeDevices, nodeLabel } from '../recognition/report';
 import { cellIndex } from '../recognition/context';
 import type { Network } from '../electrical/network';
+import { isMosElement } from '../stages';
 
 const HALF = ['low', 'high'] as const;
 
@@ -34,7 +35,7 @@ export default defineRule({
       const nets = new Set([d.name, netOf(d, d.clock)]);
       for (const e of d.footers) {
         const el = d.stage.elements[e];
-        const g = index.alias[cell.mosfets.gate[el.index]];
+        const g = index.alias[cell.mosfets.gate[el]];
         if (g === d.clock) continue;
         const t = timing[g];
         const name = elementName(cell, d.stage, e);
@@ -70,8 +71,8 @@ export default defineRule({
         const mayConduct = (n: Network): number[] | null => {
           if (n.kind === 'leaf') {
             const el = d.stage.elements[n.element];
-            if (el.kind !== 'mos') return [];
-            const g = index.alias[cell.mosfets.gate[el.index]];
+            if (!isMosElement(el)) return [];
+            const g = index.alias[cell.mosfets.gate[el]];
             const r = index.railOf(g);
             if (r) return (r === 'power') === nEval ? [] : null;
             return levelIn(timing[g], pre.phase, h) === offLevel ? null : [g];

@@ -21,11 +21,9 @@ import type { Corner } from '../../shared/deck';
 import type { CircuitElement, Network } from './network';
 import { GROUND_END, mapNetwork, NetworkEvaluator, networkElements, POWER_END } from './network';
 import { ModelResolver } from './parameters';
+import { elementIndex, isMosElement, type ElementRef } from './element';
 
-export interface ElementRef {
-  kind: 'mos' | 'res';
-  index: number;
-}
+export type { ElementRef } from './element';
 
 /** Charge-sharing drop ΔV = VDD·Cint/(Cint + Cnode). */
 export function chargeShareDrop(vdd: number, cInternal: number, cNode: number): number {
@@ -112,9 +110,9 @@ export function worstChargeSharing(input: ChargeSharingInput): ChargeSharingResu
   const collect = (n: Network) => {
     if (n.kind === 'leaf') {
       const el = elements[n.element];
-      if (el.kind === 'res') leaves.push({ a: root(n.a), b: root(n.b), gate: -1, n: true });
+      if (!isMosElement(el)) leaves.push({ a: root(n.a), b: root(n.b), gate: -1, n: true });
       else {
-        leaves.push({ a: root(n.a), b: root(n.b), gate: root(cell.mosfets.gate[el.index]), n: cell.mosfets.isN(el.index) });
+        leaves.push({ a: root(n.a), b: root(n.b), gate: root(cell.mosfets.gate[el]), n: cell.mosfets.isN(el) });
       }
     } else n.children.forEach(collect);
   };
@@ -225,11 +223,11 @@ export function driveCurrent(input: DriveInput, network: Network, va: number, vb
   };
   const mapped = mapNetwork(network, nodeOf);
   const circuitElements: CircuitElement[] = elements.map((el) => {
-    if (el.kind === 'res') {
-      const r = cell.others[el.index];
+    if (!isMosElement(el)) {
+      const r = cell.others[elementIndex(el)];
       return { kind: 'res', conductance: r.kind === 'res' && r.value > 0 ? 1 / r.value : 0 };
     }
-    const m = cell.mosfets.at(el.index);
+    const m = cell.mosfets.at(el);
     const resolved = resolver.get(m.polarity, m.model);
     const br = railOf(m.bulk);
     const bulk = br ? (br === 'power' ? 1 : 0) : m.polarity === 'n' ? 0 : 1;
@@ -247,8 +245,8 @@ export function weakestPath(input: Pick<NetworkContext, 'cell' | 'corner' | 'ele
   const strength = (n: Network): number => {
     if (n.kind === 'leaf') {
       const el = input.elements[n.element];
-      if (el.kind === 'res') return Infinity;
-      const m = input.cell.mosfets.at(el.index);
+      if (!isMosElement(el)) return Infinity;
+      const m = input.cell.mosfets.at(el);
       const p = m.polarity === 'n' ? input.corner.nmos : input.corner.pmos;
       return (p.kPrime * m.w * m.m) / m.l;
     }
@@ -303,8 +301,8 @@ export function keeperRatio(input: DriveInput, keeper: Network, evaluation: Netw
 export function networkLeakage(input: Pick<NetworkContext, 'cell' | 'corner' | 'elements'>, network: Network): number {
   if (network.kind === 'leaf') {
     const el = input.elements[network.element];
-    if (el.kind === 'res') return Infinity;
-    const m = input.cell.mosfets.at(el.index);
+    if (!isMosElement(el)) return Infinity;
+    const m = input.cell.mosfets.at(el);
     const p = m.polarity === 'n' ? input.corner.nmos : input.corner.pmos;
     return p.leakPerUm * m.w * m.m * PER_UM;
   }

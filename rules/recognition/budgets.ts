@@ -21,7 +21,7 @@ import {
 } from '../electrical/charge';
 import type { Network } from '../electrical/network';
 import { ModelResolver } from '../electrical/parameters';
-import { analyseStage } from '../stages';
+import { analyseStage, isMosElement, elementIndex, mosElement, resistorElement, type StageElement } from '../stages';
 import type { CellContext } from '../types';
 import { cellIndex, childContext, designMemo, stageEnvironmentOf } from './context';
 import { lowerCaseModel, modelCode, NumberKey, NumberKeyTable } from '../signature-key';
@@ -114,7 +114,7 @@ function neighbourhood(d: DynamicNode): Neighbourhood {
       others.push(cell.others[i]);
     }
   };
-  for (const el of stage.elements) (el.kind === 'mos' ? addMos : addOther)(el.index);
+  for (const el of stage.elements) (isMosElement(el) ? addMos : addOther)(elementIndex(el));
   const gather = (x: number) => {
     const channel = index.channel.of(x);
     for (let k = 0; k < channel.length; k++) addMos(channel[k]);
@@ -125,7 +125,7 @@ function neighbourhood(d: DynamicNode): Neighbourhood {
   };
   gather(d.node);
   for (const x of stage.internal) gather(x);
-  const elements: ElementRef[] = stage.elements.map((el) => ({ kind: el.kind, index: (el.kind === 'mos' ? mosMap : otherMap).get(el.index)! }));
+  const elements: StageElement[] = stage.elements.map((el) => (isMosElement(el) ? mosElement(mosMap.get(el)!) : resistorElement(otherMap.get(elementIndex(el))!)));
   const alias = index.alias;
   const roles = new Map<number, number>();
   const role = (net: number): number => {
@@ -179,8 +179,8 @@ function encodeNeighbourhood(d: DynamicNode, hood: Neighbourhood, key: NumberKey
   const shape = (n: Network): void => {
     if (n.kind === 'leaf') {
       key.push(0);
-      key.push(elements[n.element].kind === 'mos' ? 0 : 1);
-      key.push(elements[n.element].index);
+      key.push(isMosElement(elements[n.element]) ? 0 : 1);
+      key.push(elementIndex(elements[n.element]));
       return;
     }
     key.push(n.kind === 'series' ? 1 : 2);
@@ -194,7 +194,7 @@ function encodeNeighbourhood(d: DynamicNode, hood: Neighbourhood, key: NumberKey
     shape(k.network);
   }
   key.push(d.footers.length);
-  for (const e of d.footers) key.push(elements[e].index);
+  for (const e of d.footers) key.push(elementIndex(elements[e]));
   key.push(hood.precharged.size);
   for (const x of hood.precharged) key.push(role(x));
 }
@@ -210,8 +210,8 @@ function keeperSignatures(d: DynamicNode, hood: Neighbourhood): string[] {
   const deviceOf = (n: Network): string => {
     if (n.kind !== 'leaf') return `${n.kind[0]}(${n.children.map(deviceOf).join(' ')})`;
     const el = elements[n.element];
-    if (el.kind !== 'mos') return 'r';
-    const i = mosSource[el.index];
+    if (!isMosElement(el)) return 'r';
+    const i = mosSource[el];
     return `${mos.polarityOf(i)}${mos.w[i]},${mos.l[i]},${mos.m[i]},${lowerCaseModel(mos.models[i])},${role(mos.bulk[i])}`;
   };
   const evalSig = deviceOf(d.evaluation);
@@ -238,7 +238,7 @@ function solve(d: DynamicNode, hood: Neighbourhood): ElectricalBudget[] {
   const levels = footerLevels(d);
   d.footers.forEach((e, i) => {
     const el = d.stage.elements[e];
-    held.set(index.alias[ctx.cell.mosfets.gate[el.index]], levels[i]);
+    held.set(index.alias[ctx.cell.mosfets.gate[el]], levels[i]);
   });
   return ctx.deck.corners.map((corner) => {
     const base = { cell, corner, elements: hood.elements, railOf, alias: index.alias };

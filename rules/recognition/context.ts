@@ -12,7 +12,7 @@ import type { Deck } from '../../shared/deck';
 import { globMatcher } from '../../shared/deck';
 import type { CellContext, PortSignal } from '../types';
 import { zeroOhmAlias } from '../net-groups';
-import { stageEnvironment, stagesOf } from '../stages';
+import { stageEnvironment, stagesOf, isMosElement } from '../stages';
 import type { CellStages, Stage, StageEnvironment } from '../stages';
 
 const supplyMatchers = new WeakMap<Deck, { power: (name: string) => boolean; ground: (name: string) => boolean }>();
@@ -329,7 +329,7 @@ export function cellIndex(ctx: CellContext): CellIndex {
     for (const s of stages.stages) {
       for (const x of s.inputs) inputOf.push(x, s.id);
       if (s.kind === 'pass') for (const t of s.terminals) passAt.push(t, s.id);
-      for (const e of s.elements) if (e.kind === 'mos') stageOfMos[e.index] = s.id;
+      for (const e of s.elements) if (isMosElement(e)) stageOfMos[e] = s.id;
     }
     return { ...light, stages, inputOf: inputOf.lists(n), passAt: passAt.lists(n), stageOfMos } satisfies CellIndex;
   });

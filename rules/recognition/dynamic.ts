@@ -24,6 +24,7 @@ import type { CellContext } from '../types';
 import { cellIndex, portsAreLocal, RESTORING_KINDS, type CellIndex } from './context';
 import { buildRegion, channelPorts, prechargePorts, REGION_DRIVEN_KEY } from './region';
 import { drivenFromNode, isClockTiming, portRelation, timingOf, UNKNOWN, type Level, type Timing } from './timing';
+import { isMosElement, elementIndex, resistorElement } from '../stages';
 
 export type KeeperKind = 'half' | 'full' | 'always-on';
 
@@ -96,12 +97,12 @@ export interface DynamicNode {
 
 export function elementName(cell: Cell, stage: Stage, element: number): string {
   const el = stage.elements[element];
-  return el.kind === 'mos' ? cell.mosfets.names[el.index] : cell.others[el.index].name;
+  return isMosElement(el) ? cell.mosfets.names[el] : cell.others[elementIndex(el)].name;
 }
 
 export function elementLoc(cell: Cell, stage: Stage, element: number): SourceLoc {
   const el = stage.elements[element];
-  return el.kind === 'mos' ? cell.mosfets.loc(el.index) : cell.others[el.index].loc;
+  return isMosElement(el) ? cell.mosfets.loc(el) : cell.others[elementIndex(el)].loc;
 }
 
 /** Every dynamic node judged in this context (local ones, and those gathered across child instances). */
@@ -193,9 +194,9 @@ function recognise(ctx: CellContext, index: CellIndex, s: Stage, info: DynamicIn
   if (!preSide || !evalSide || !info.precharge.length) return null;
   const prePolarity = nEval ? 'p' : 'n';
   const onRail = nEval ? 'ground' : 'power';
-  const isMos = (e: number) => s.elements[e].kind === 'mos';
-  const gateOf = (e: number) => (isMos(e) ? index.alias[cell.mosfets.gate[s.elements[e].index]] : -1);
-  const polarityOf = (e: number) => (isMos(e) ? cell.mosfets.polarityOf(s.elements[e].index) : undefined);
+  const isMos = (e: number) => isMosElement(s.elements[e]);
+  const gateOf = (e: number) => (isMos(e) ? index.alias[cell.mosfets.gate[s.elements[e]]] : -1);
+  const polarityOf = (e: number) => (isMos(e) ? cell.mosfets.polarityOf(s.elements[e]) : undefined);
 
   const inverseOfNode = (g: number): boolean => {
     const d = index.stages.driverOf.get(g);
@@ -295,7 +296,7 @@ function recognise(ctx: CellContext, index: CellIndex, s: Stage, info: DynamicIn
 
   const loads: Load[] = [];
   const own = new Set<number>();
-  for (const el of s.elements) if (el.kind === 'mos') own.add(el.index);
+  for (const el of s.elements) if (isMosElement(el)) own.add(el);
   const gated = index.gates.of(node);
   for (let k = 0; k < gated.length; k++) {
     const i = gated[k];
@@ -327,7 +328,7 @@ function recognise(ctx: CellContext, index: CellIndex, s: Stage, info: DynamicIn
   const os = index.others.of(node);
   for (let k = 0; k < os.length; k++) {
     const o = cell.others[os[k]];
-    if (o.kind === 'res' && !s.elements.some((el) => el.kind === 'res' && el.index === os[k])) loads.push({ kind: 'diffusion', device: o.name, stage: null });
+    if (o.kind === 'res' && !s.elements.some((el) => el === resistorElement(os[k]))) loads.push({ kind: 'diffusion', device: o.name, stage: null });
   }
   // A port of a real root cell (not of a synthetic region) leaves the design.
   if (index.isPort[node] && ctx.design.cells.get(cell.key) === cell) loads.push({ kind: 'port', device: cell.nets[node], stage: null });

@@ -24,6 +24,7 @@ import type { Corner } from '../../shared/deck';
 import { thresholdVoltage } from '../electrical/mos';
 import { ModelResolver } from '../electrical/parameters';
 import { netCapacitance } from './budgets';
+import { isMosElement } from '../stages';
 
 export interface PassEdge {
   stage: Stage;
@@ -71,9 +72,9 @@ export function passEdgesOf(ctx: CellContext): { edges: PassEdge[]; at: Map<numb
       if (s.kind !== 'pass') continue;
       const groups = new Map<string, PassEdge>();
       s.elements.forEach((el, e) => {
-        if (el.kind !== 'mos') return;
-        const x = index.alias[cell.mosfets.drain[el.index]];
-        const y = index.alias[cell.mosfets.source[el.index]];
+        if (!isMosElement(el)) return;
+        const x = index.alias[cell.mosfets.drain[el]];
+        const y = index.alias[cell.mosfets.source[el]];
         if (x === y) return;
         const [a, b] = x < y ? [x, y] : [y, x];
         const key = `${a},${b}`;
@@ -90,7 +91,7 @@ export function passEdgesOf(ctx: CellContext): { edges: PassEdge[]; at: Map<numb
         }
         g.elements.push(e);
         // A p-channel device passes a full high, an n-channel device a full low.
-        if (!cell.mosfets.isN(el.index)) g.degradesHigh = false;
+        if (!cell.mosfets.isN(el)) g.degradesHigh = false;
         else g.degradesLow = false;
       });
     }
@@ -100,7 +101,7 @@ export function passEdgesOf(ctx: CellContext): { edges: PassEdge[]; at: Map<numb
 
 /** The device of a chain step (a `stage.elements` index of the step's stage). */
 export function stepDevice(cell: CellContext['cell'], step: ChainStep, element: number): Mosfet {
-  return cell.mosfets.at(step.edge.stage.elements[element].index);
+  return cell.mosfets.at(step.edge.stage.elements[element]);
 }
 
 /** Past this many nets a pass component is not searched from each receiver (a bus, not a chain). */
@@ -227,8 +228,8 @@ export function passedLevels(ctx: CellContext, chain: PassChain, corner: Corner)
     const s = st.edge.stage;
     for (const e of st.edge.elements) {
       const el = s.elements[e];
-      if (el.kind !== 'mos') continue;
-      const m = cell.mosfets.at(el.index);
+      if (!isMosElement(el)) continue;
+      const m = cell.mosfets.at(el);
       const model = r.get(m.polarity, m.model).model;
       const bulkRail = index.railOf(m.bulk);
       if (m.polarity === 'n' && st.edge.degradesHigh) {
@@ -262,8 +263,8 @@ export function elmoreDelay(ctx: CellContext, chain: PassChain, corner: Corner):
   const vdd = corner.vdd;
   const req = (s: Stage, e: number): number => {
     const el = s.elements[e];
-    if (el.kind !== 'mos') return 0;
-    const m = cell.mosfets.at(el.index);
+    if (!isMosElement(el)) return 0;
+    const m = cell.mosfets.at(el);
     const model = r.get(m.polarity, m.model).model;
     const vgt = Math.max(vdd - model.vt0, 1e-3);
     const vmin = model.kind === 'velocity-saturated' ? Math.min(vgt, model.vdsat) : vgt;

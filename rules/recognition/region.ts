@@ -20,6 +20,7 @@ import { MosfetTable } from '../../grammar/mosfet-table';
 import type { CellContext } from '../types';
 import { cellIndex, childContext, designMemo, makeContext, netIndex, pinRails, RESTORING_KINDS, terminalsOf, type CellIndex } from './context';
 import { primeClockHint, timingOf, type Timing } from './timing';
+import { isMosElement, elementIndex } from '../stages';
 
 /** Past this many devices a region is not built (a power grid or a global net, not a bit line). */
 export const MAX_REGION_DEVICES = 20_000;
@@ -238,8 +239,8 @@ function build(ctx: CellContext, start: number): Region | null {
           continue;
         }
         for (const el of index.stages.stages[sid].elements) {
-          if (el.kind === 'mos') addMos(level, el.index);
-          else addOther(level, el.index);
+          if (isMosElement(el)) addMos(level, el);
+          else addOther(level, elementIndex(el));
         }
       }
     }

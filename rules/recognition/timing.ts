@@ -23,7 +23,7 @@
 // gate no trace reaches still defines a phase of its own (an enable), so that its
 // node and its footer can be compared with each other.
 
-import { classifyStage, stageLogic, outputValue, STAGE_CLOCK_HINT_KEY, type ClockHint, type DynamicInfo, type Stage } from '../stages';
+import { classifyStage, stageLogic, outputValue, STAGE_CLOCK_HINT_KEY, type ClockHint, type DynamicInfo, type Stage, isMosElement } from '../stages';
 import type { StageLogic } from '../stages/classify';
 import type { CellContext } from '../types';
 import { cellIndex, childContext, pinRails, type CellIndex } from './context';
@@ -433,17 +433,17 @@ function footlessDynamic(ctx: CellContext, index: CellIndex, s: Stage, gate: num
   const prePolarity = info.style === 'n-evaluate' ? 'p' : 'n';
   const evalPolarity = info.style === 'n-evaluate' ? 'n' : 'p';
   const cell = ctx.cell;
-  const polarityOf = (e: number) => (s.elements[e].kind === 'mos' ? cell.mosfets.polarityOf(s.elements[e].index) : 'r');
+  const polarityOf = (e: number) => (isMosElement(s.elements[e]) ? cell.mosfets.polarityOf(s.elements[e]) : 'r');
   for (const e of networkElements(evaluation)) {
     if (polarityOf(e) !== evalPolarity) return null;
-    if (drivenFromNode(index, index.alias[cell.mosfets.gate[s.elements[e].index]], node)) return null;
+    if (drivenFromNode(index, index.alias[cell.mosfets.gate[s.elements[e]]], node)) return null;
   }
   const branches: Network[] = pre.kind === 'parallel' ? pre.children : [pre];
   for (const b of branches) {
     if (b.kind === 'leaf' && info.precharge.includes(b.element)) continue;
     for (const e of networkElements(b)) {
       if (polarityOf(e) !== prePolarity) return null;
-      const g = index.alias[cell.mosfets.gate[s.elements[e].index]];
+      const g = index.alias[cell.mosfets.gate[s.elements[e]]];
       if (index.railOf(g) || g === s.output) continue;
       if (!drivenFromNode(index, g, s.output!)) return null;
     }
@@ -457,12 +457,12 @@ function reselectPrecharge(ctx: CellContext, index: CellIndex, s: Stage): Dynami
   const nEval = old.style === 'n-evaluate';
   const pre = nEval ? s.pullUp! : s.pullDown!;
   const evaluation = nEval ? s.pullDown! : s.pullUp!;
-  const gateOf = (e: number) => (s.elements[e].kind === 'mos' ? index.alias[ctx.cell.mosfets.gate[s.elements[e].index]] : -1);
+  const gateOf = (e: number) => (isMosElement(s.elements[e]) ? index.alias[ctx.cell.mosfets.gate[s.elements[e]]] : -1);
   const direct = pre.kind === 'leaf' ? [pre.element] : pre.kind === 'parallel' ? pre.children.filter((c) => c.kind === 'leaf').map((c) => (c as { element: number }).element) : [];
   for (const e of direct) {
     const g = gateOf(e);
     if (g < 0 || index.railOf(g) || drivenFromNode(index, g, s.output!)) continue;
-    if (ctx.cell.mosfets.isN(s.elements[e].index) === nEval) continue;
+    if (ctx.cell.mosfets.isN(s.elements[e]) === nEval) continue;
     return {
       style: old.style,
       clock: g,

@@ -16,7 +16,7 @@ import { ModelResolver, type ResolvedModel } from '../electrical/parameters';
 import { analyseTransfer, FIRST_INTERNAL, GROUND, INPUT, OUTPUT, POWER, TransferSolver, type StageCircuit, type TransferResult } from '../electrical/transfer';
 import { outputValue, stageLogic } from './classify';
 import type { Stage } from './stage';
-import { GROUND_END, POWER_END } from './stage';
+import { GROUND_END, POWER_END, elementIndex, isMosElement } from './stage';
 import { modelCode, NumberKey, NumberKeyTable } from '../signature-key';
 
 /** Kinds with a static transfer curve. */
@@ -260,15 +260,15 @@ export function stageCircuit(
       parts.push('-');
       continue;
     }
-    if (el.kind === 'res') {
-      const r = cell.others[el.index];
+    if (!isMosElement(el)) {
+      const r = cell.others[elementIndex(el)];
       const g = r.kind === 'res' && r.value > 0 ? 1 / r.value : 0;
       elements.push({ kind: 'res', conductance: g });
       parts.push(`r${g}`);
       continue;
     }
     const mos = cell.mosfets;
-    const d = el.index;
+    const d = el;
     const polarity = mos.polarityOf(d);
     const model = mos.models[d];
     const resolved = resolver.get(polarity, model);
@@ -381,13 +381,13 @@ class SignatureEncoder extends NumberKey {
     for (let i = 0; i < stage.elements.length; i++) {
       const el = stage.elements[i];
       if (!active[i]) this.push(TAG_INACTIVE);
-      else if (el.kind === 'res') {
-        const r = cell.others[el.index];
+      else if (!isMosElement(el)) {
+        const r = cell.others[elementIndex(el)];
         this.push(TAG_RES);
         this.push(r.kind === 'res' ? r.value : 0);
       } else {
         const mos = cell.mosfets;
-        const k = el.index;
+        const k = el;
         this.push(mos.isN(k) ? TAG_N : TAG_P);
         this.push(mos.w[k]);
         this.push(mos.l[k]);

@@ -7,6 +7,7 @@ import type { Cell, RailKind } from '../../grammar/design';
 import type { Network } from '../electrical/network';
 import { networkElements } from '../electrical/network';
 import type { Stage } from './stage';
+import { isMosElement } from './stage';
 
 /** Beyond this many inputs, truth tables give way to structural checks. */
 export const MAX_TRUTH_TABLE_INPUTS = 14;
@@ -50,14 +51,14 @@ export class StageLogic {
       bit[i] = 0;
       nChannel[i] = 0;
       tiedToRail[i] = 0;
-      if (el.kind === 'res') {
+      if (!isMosElement(el)) {
         state[i] = ALWAYS;
         gate[i] = -1;
         polarity[i] = 'r';
         continue;
       }
       const mos = cell.mosfets;
-      const d = el.index;
+      const d = el;
       const g = alias ? alias[mos.gate[d]] : mos.gate[d];
       const isN = mos.isN(d);
       gate[i] = g;

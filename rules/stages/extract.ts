@@ -19,7 +19,7 @@ import { UnionFind, zeroOhmAlias } from '../net-groups';
 import { reduceSeriesParallel } from './series-parallel';
 import { classifyStage } from './classify';
 import type { AuxiliaryDevice, CellStages, Stage, StageElement, StageOptions } from './stage';
-import { GROUND_END, POWER_END } from './stage';
+import { GROUND_END, POWER_END, mosElement, resistorElement } from './stage';
 
 const POLARITY_N = 0;
 const POLARITY_P = 1;
@@ -83,7 +83,7 @@ export function extractStages(cell: Cell, rails: readonly (RailKind | undefined)
     edgePolarity[edgeCount] = POLARITY_R;
     edgeIndex[edgeCount++] = i;
   }
-  const elementOf = (e: number): StageElement => ({ kind: e < firstResistor ? 'mos' : 'res', index: edgeIndex[e] });
+  const elementOf = (e: number): StageElement => (e < firstResistor ? mosElement(edgeIndex[e]) : resistorElement(edgeIndex[e]));
   const locOf = (e: number): SourceLoc => (e < firstResistor ? mos.loc(edgeIndex[e]) : cell.others[edgeIndex[e]].loc);
   const fileOf = (e: number): string => (e < firstResistor ? mos.file(edgeIndex[e]) : cell.others[edgeIndex[e]].loc.file);
 

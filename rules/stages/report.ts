@@ -10,13 +10,14 @@ import { describeSources } from '../electrical/parameters';
 import { formatSi } from '../units';
 import { marginOf, type CornerAnalysis, type HeldInput, type StageAnalysis } from './analyse';
 import type { Stage } from './stage';
+import { isMosElement, elementIndex } from './stage';
 
 export function transferPlot(r: TransferResult): z.infer<typeof transferPlotSchema> {
   return { kind: 'transfer', vdd: r.vdd, vin: r.vin.slice(), vout: r.vout.slice(), vm: r.vm, gainAtVm: r.gainAtVm, vil: r.vil, vih: r.vih, voh: r.voh, vol: r.vol };
 }
 
 export function stageDeviceNames(cell: Cell, stage: Stage): string[] {
-  return stage.elements.map((e) => (e.kind === 'mos' ? cell.mosfets.names[e.index] : cell.others[e.index].name));
+  return stage.elements.map((e) => (isMosElement(e) ? cell.mosfets.names[e] : cell.others[elementIndex(e)].name));
 }
 
 export function heldText(cell: Cell, held: readonly HeldInput[]): string {

@@ -2,6 +2,7 @@
 // recognition rules that build on them.
 
 import type { SourceLoc } from '../../grammar/design';
+import type { ElementRef } from '../electrical/element';
 import type { Network } from '../electrical/network';
 
 export { POWER_END, GROUND_END } from '../electrical/network';
@@ -21,11 +22,9 @@ export type StageKind =
   | 'pass'
   | 'other';
 
-export interface StageElement {
-  kind: 'mos' | 'res';
-  /** Index into `cell.mosfets` (mos) or `cell.others` (res). */
-  index: number;
-}
+/** A channel element of a stage, as one number (see `ElementRef`): networks and rules refer to a stage's elements by position. */
+export type StageElement = ElementRef;
+export { elementIndex, isMosElement, mosElement, resistorElement } from '../electrical/element';
 
 export interface AuxiliaryDevice {
   /** Index into `Stage.elements`. */

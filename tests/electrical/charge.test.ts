@@ -13,6 +13,7 @@ import {
 import { CellBuilder } from '../support/cell-builder';
 import { analyseCell, corner, deckWith, nParams, pParams } from './helpers';
 import type { Network } from '../../rules/electrical/network';
+import { isMosElement, mosElement } from '../../rules/electrical/element';
 
 // A footed domino AND2: precharge MP (clk), evaluation MA (a) – n1 – MB (b) – n2 – MF (clk) to ground,
 // output inverter MO/MON, explicit capacitors 20 fF on the dynamic node x, 5 fF on n1 and on n2.
@@ -109,7 +110,7 @@ describe('keeper strength', () => {
 
   it('on-currents are square-law saturation currents k′/2·(W/L)·(VDD − VT)²; the ratio is keeper over weakest path', () => {
     const { cell, a, stage } = dynamicStage(flat);
-    const keeperIndex = stage.elements.findIndex((e) => cell.mosfets.at(e.index).name === 'MK');
+    const keeperIndex = stage.elements.findIndex((e) => isMosElement(e) && cell.mosfets.names[e] === 'MK');
     const keeper: Network = { kind: 'leaf', element: keeperIndex, a: -1, b: stage.output! };
     const input = { cell, corner: flat, elements: stage.elements, railOf: a.env.railOf, models: a.design.models, useNetlistModels: true };
     const r = keeperRatio(input, keeper, stage.pullDown!);
@@ -130,7 +131,7 @@ describe('keeper strength', () => {
       .build();
     const d = cell.netIndex.get('d')!;
     const m = cell.netIndex.get('m')!;
-    const elements = [0, 1, 2].map((index) => ({ kind: 'mos' as const, index }));
+    const elements = [0, 1, 2].map(mosElement);
     const input = { cell, corner: flat, elements, railOf: (n: number) => (n === 1 ? ('power' as const) : n === 2 ? ('ground' as const) : undefined), models: new Map(), useNetlistModels: false };
     const stack: Network = { kind: 'series', a: d, b: -2, children: [{ kind: 'leaf', element: 0, a: d, b: m }, { kind: 'leaf', element: 1, a: m, b: -2 }], nodes: [m] };
     for (const vd of [0.3, 1, 2.5]) {

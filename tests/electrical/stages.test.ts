@@ -4,7 +4,7 @@
 
 import { describe, expect, it } from 'vitest';
 import { networkElements, networkNodes } from '../../rules/electrical/network';
-import { extractStages, type Stage } from '../../rules/stages';
+import { elementIndex, extractStages, isMosElement, type Stage } from '../../rules/stages';
 import { localRails } from '../../rules/engine';
 import { defaultDeck } from '../../rules/default-deck';
 import { CellBuilder, designOf } from '../support/cell-builder';
@@ -16,7 +16,7 @@ function stagesOf(b: CellBuilder, isClock?: (net: number) => boolean) {
   const cell = b.build();
   const stages = extractStages(cell, localRails(designOf([cell]), cell, deck), { isClock });
   const names = (nets: number[]) => nets.map((n) => cell.nets[n]);
-  const devices = (st: Stage, els = st.elements.map((_, i) => i)) => els.map((i) => (st.elements[i].kind === 'mos' ? cell.mosfets.names[st.elements[i].index] : undefined) ?? cell.others[st.elements[i].index].name);
+  const devices = (st: Stage, els = st.elements.map((_, i) => i)) => els.map((i) => (isMosElement(st.elements[i]) ? cell.mosfets.names[st.elements[i]] : cell.others[elementIndex(st.elements[i])].name));
   const driving = (net: string) => stages.stages.find((st) => st.output === cell.netIndex.get(net))!;
   return { cell, stages, names, devices, driving };
 }
