@@ -52,26 +52,34 @@ export interface CornerBudget {
 
 /** The node's budgets at every deck corner. */
 export function dynamicBudgets(d: DynamicNode): CornerBudget[] {
-  return d.ctx.memo(`recognition.budgets.${d.node}`, () => {
-    const hood = neighbourhood(d);
-    encodeNeighbourhood(d, hood, hoodKey);
-    const table = designMemo(d.ctx.design, d.ctx.deck, 'dynamic-budgets', () => new NumberKeyTable<ElectricalBudget[]>());
-    const electrical = table.getOrCompute(hoodKey, () => solve(d, hood));
-    const thresholds = receiverThresholds(d);
-    // Named field by field: spreading each corner's budget was the costliest line here on a flat netlist (a copy per node and corner).
-    return electrical.map(
-      (e, i): CornerBudget => ({
-        corner: e.corner,
-        vdd: e.vdd,
-        capacitance: e.capacitance,
-        chargeSharing: e.chargeSharing,
-        chargeSharingDrop: e.chargeSharingDrop,
-        keepers: e.keepers,
-        leakage: e.leakage,
-        threshold: thresholds[i],
-      }),
-    );
-  });
+  // Keyed by net number in a map of the context's own: a flat netlist asks for a hundred thousand nodes, several times each.
+  const byNode = d.ctx.memo('recognition.budgets', () => new Map<number, CornerBudget[]>());
+  const known = byNode.get(d.node);
+  if (known) return known;
+  const budgets = computeBudgets(d);
+  byNode.set(d.node, budgets);
+  return budgets;
+}
+
+function computeBudgets(d: DynamicNode): CornerBudget[] {
+  const hood = neighbourhood(d);
+  encodeNeighbourhood(d, hood, hoodKey);
+  const table = designMemo(d.ctx.design, d.ctx.deck, 'dynamic-budgets', () => new NumberKeyTable<ElectricalBudget[]>());
+  const electrical = table.getOrCompute(hoodKey, () => solve(d, hood));
+  const thresholds = receiverThresholds(d);
+  // Named field by field: spreading each corner's budget was the costliest line here on a flat netlist (a copy per node and corner).
+  return electrical.map(
+    (e, i): CornerBudget => ({
+      corner: e.corner,
+      vdd: e.vdd,
+      capacitance: e.capacitance,
+      chargeSharing: e.chargeSharing,
+      chargeSharingDrop: e.chargeSharingDrop,
+      keepers: e.keepers,
+      leakage: e.leakage,
+      threshold: thresholds[i],
+    }),
+  );
 }
 
 /** The node's stage, every device with a terminal on the node or on a stack node of its stage, and the capacitors there. */

@@ -103,7 +103,10 @@ export function channelPorts(ctx: CellContext, instance: number): Uint8Array {
 
 /** Builds the region of `net` (a local net of `ctx`, or a port of a root). Null when it reaches no child or grows too large. */
 export function buildRegion(ctx: CellContext, net: number): Region | null {
-  return ctx.memo(`recognition.region.${net}`, () => build(ctx, net));
+  const byNet = ctx.memo('recognition.region', () => new Map<number, Region | null>());
+  let region = byNet.get(net);
+  if (region === undefined) byNet.set(net, (region = build(ctx, net)));
+  return region;
 }
 
 function build(ctx: CellContext, start: number): Region | null {
