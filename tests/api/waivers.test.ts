@@ -286,12 +286,12 @@ describe('waivers', () => {
 });
 
 describe('withdrawing a request', () => {
-  it('the requester withdraws their own pending request; nobody else can, and a decided one is not withdrawn', async () => {
+  /** A team with the size rule only, a finished run of the Heron column by its designer, and a reviewer; `ask` requests a waiver for a cell's finding. */
+  async function teamWithRun() {
     const team = await createTeam();
     await sizeOnlyTeamDeck(team);
     const blockId = (await heronBlock(team)).id;
     const designer = await signedInAs(env, team, ['designer']);
-    const otherDesigner = await signedInAs(env, team, ['designer']);
     const reviewer = await signedInAs(env, team, ['reviewer']);
     const run = await finishedRun(designer.agent, blockId, heronColumn());
     const ask = async (cell: string) => {
@@ -299,6 +299,12 @@ describe('withdrawing a request', () => {
       return (await designer.agent.post('/api/waivers').send({ runId: run, findingId: f.id, scope: 'finding', justification: 'Sized for the slow corner only; see the column sizing note.' }).expect(201))
         .body as WaiverView;
     };
+    return { team, designer, reviewer, run, ask };
+  }
+
+  it('the requester withdraws their own pending request; nobody else can, and a decided one is not withdrawn', async () => {
+    const { team, designer, reviewer, run, ask } = await teamWithRun();
+    const otherDesigner = await signedInAs(env, team, ['designer']);
     const asked = await ask('hcol_pre');
     expect(inCell(await findings(designer.agent, run), 'hcol_pre').status).toBe('waiver-requested');
 
@@ -326,16 +332,9 @@ describe('withdrawing a request', () => {
   });
 
   it('a reviewer rejects a pending request rather than revoking it; an admin, who cannot decide, may cancel it', async () => {
-    const team = await createTeam();
-    await sizeOnlyTeamDeck(team);
-    const blockId = (await heronBlock(team)).id;
-    const designer = await signedInAs(env, team, ['designer']);
-    const reviewer = await signedInAs(env, team, ['reviewer']);
+    const { team, designer, reviewer, run, ask } = await teamWithRun();
     const admin = await signedInAs(env, team, ['admin']);
-    const run = await finishedRun(designer.agent, blockId, heronColumn());
-    const f = inCell(await findings(designer.agent, run), 'hcol_pre');
-    const asked = (await designer.agent.post('/api/waivers').send({ runId: run, findingId: f.id, scope: 'finding', justification: 'Sized for the slow corner only; see the column sizing note.' }).expect(201))
-      .body as WaiverView;
+    const asked = await ask('hcol_pre');
 
     const refused = await reviewer.agent.post(`/api/waivers/${asked.id}/revoke`).send({ reason: 'not this way' }).expect(409);
     expect(refused.body.error.message).toMatch(/reject it/);
