@@ -13,23 +13,23 @@ const NO_PARAMS: Readonly<Record<string, number>> = Object.freeze({});
 export class MosfetTable implements Iterable<Mosfet> {
   length = 0;
   /** 0 for n-channel, 1 for p-channel: read it through `isN` / `polarityOf`. */
-  private polarityCode: Uint8Array;
-  drain: Int32Array;
-  gate: Int32Array;
-  source: Int32Array;
-  bulk: Int32Array;
+  private polarityCode = new Uint8Array(0);
+  drain = new Int32Array(0);
+  gate = new Int32Array(0);
+  source = new Int32Array(0);
+  bulk = new Int32Array(0);
   /** Channel width in metres, scale applied (all fingers of one device). */
-  w: Float64Array;
+  w = new Float64Array(0);
   /** Channel length in metres, scale applied. */
-  l: Float64Array;
+  l = new Float64Array(0);
   /** Parallel multiplier (M). */
-  m: Float64Array;
+  m = new Float64Array(0);
   /** Finger count (NF), 1 when absent. */
-  nf: Float64Array;
+  nf = new Float64Array(0);
   /** 1-based physical line and column of each device's element name. */
-  line: Int32Array;
-  column: Int32Array;
-  private fileCode: Int32Array;
+  line = new Int32Array(0);
+  column = new Int32Array(0);
+  private fileCode = new Int32Array(0);
   /** Element names as written. */
   readonly names: string[] = [];
   /** Model or PDK device names as written. */
@@ -39,19 +39,7 @@ export class MosfetTable implements Iterable<Mosfet> {
   private readonly paramList: Record<string, number>[] = [];
 
   constructor(capacity = 16) {
-    const n = Math.max(1, capacity);
-    this.polarityCode = new Uint8Array(n);
-    this.drain = new Int32Array(n);
-    this.gate = new Int32Array(n);
-    this.source = new Int32Array(n);
-    this.bulk = new Int32Array(n);
-    this.w = new Float64Array(n);
-    this.l = new Float64Array(n);
-    this.m = new Float64Array(n);
-    this.nf = new Float64Array(n);
-    this.line = new Int32Array(n);
-    this.column = new Int32Array(n);
-    this.fileCode = new Int32Array(n);
+    this.resize(Math.max(1, capacity));
   }
 
   static from(mosfets: Iterable<Mosfet>): MosfetTable {
@@ -87,7 +75,7 @@ export class MosfetTable implements Iterable<Mosfet> {
     line: number,
     column: number,
   ): number {
-    if (this.length === this.drain.length) this.grow();
+    if (this.length === this.drain.length) this.resize(2 * this.length);
     const i = this.length++;
     this.polarityCode[i] = polarity === 'n' ? POLARITY_N : POLARITY_P;
     this.drain[i] = drain;
@@ -168,24 +156,23 @@ export class MosfetTable implements Iterable<Mosfet> {
     return files.push(file) - 1;
   }
 
-  private grow(): void {
-    const n = this.drain.length * 2;
-    const grow = <T extends Uint8Array | Int32Array | Float64Array>(a: T, make: (n: number) => T): T => {
-      const b = make(n);
+  /** Room for `n` rows in every column, the rows so far kept. */
+  private resize(n: number): void {
+    const copy = <T extends Uint8Array | Int32Array | Float64Array>(a: T, b: T): T => {
       b.set(a);
       return b;
     };
-    this.polarityCode = grow(this.polarityCode, (k) => new Uint8Array(k));
-    this.fileCode = grow(this.fileCode, (k) => new Int32Array(k));
-    this.drain = grow(this.drain, (k) => new Int32Array(k));
-    this.gate = grow(this.gate, (k) => new Int32Array(k));
-    this.source = grow(this.source, (k) => new Int32Array(k));
-    this.bulk = grow(this.bulk, (k) => new Int32Array(k));
-    this.line = grow(this.line, (k) => new Int32Array(k));
-    this.column = grow(this.column, (k) => new Int32Array(k));
-    this.w = grow(this.w, (k) => new Float64Array(k));
-    this.l = grow(this.l, (k) => new Float64Array(k));
-    this.m = grow(this.m, (k) => new Float64Array(k));
-    this.nf = grow(this.nf, (k) => new Float64Array(k));
+    this.polarityCode = copy(this.polarityCode, new Uint8Array(n));
+    this.fileCode = copy(this.fileCode, new Int32Array(n));
+    this.drain = copy(this.drain, new Int32Array(n));
+    this.gate = copy(this.gate, new Int32Array(n));
+    this.source = copy(this.source, new Int32Array(n));
+    this.bulk = copy(this.bulk, new Int32Array(n));
+    this.line = copy(this.line, new Int32Array(n));
+    this.column = copy(this.column, new Int32Array(n));
+    this.w = copy(this.w, new Float64Array(n));
+    this.l = copy(this.l, new Float64Array(n));
+    this.m = copy(this.m, new Float64Array(n));
+    this.nf = copy(this.nf, new Float64Array(n));
   }
 }

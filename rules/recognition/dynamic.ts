@@ -24,7 +24,7 @@ import type { CellContext } from '../types';
 import { cellIndex, portsAreLocal, RESTORING_KINDS, type CellIndex } from './context';
 import { buildRegion, channelPorts, prechargePorts, REGION_DRIVEN_KEY } from './region';
 import { drivenFromNode, isClockTiming, portRelation, timingOf, UNKNOWN, type Level, type Timing } from './timing';
-import { isMosElement, elementIndex, resistorElement } from '../stages';
+import { deviceName, isMosElement, elementIndex, resistorElement } from '../stages';
 
 export type KeeperKind = 'half' | 'full' | 'always-on';
 
@@ -96,8 +96,7 @@ export interface DynamicNode {
 }
 
 export function elementName(cell: Cell, stage: Stage, element: number): string {
-  const el = stage.elements[element];
-  return isMosElement(el) ? cell.mosfets.names[el] : cell.others[elementIndex(el)].name;
+  return deviceName(cell, stage.elements[element]);
 }
 
 export function elementLoc(cell: Cell, stage: Stage, element: number): SourceLoc {

@@ -9,15 +9,20 @@ import type { TransferResult } from '../electrical/transfer';
 import { describeSources } from '../electrical/parameters';
 import { formatSi } from '../units';
 import { marginOf, type CornerAnalysis, type HeldInput, type StageAnalysis } from './analyse';
-import type { Stage } from './stage';
+import type { Stage, StageElement } from './stage';
 import { isMosElement, elementIndex } from './stage';
 
 export function transferPlot(r: TransferResult): z.infer<typeof transferPlotSchema> {
   return { kind: 'transfer', vdd: r.vdd, vin: r.vin.slice(), vout: r.vout.slice(), vm: r.vm, gainAtVm: r.gainAtVm, vil: r.vil, vih: r.vih, voh: r.voh, vol: r.vol };
 }
 
+/** The device of a stage element, by its name as written. */
+export function deviceName(cell: Cell, el: StageElement): string {
+  return isMosElement(el) ? cell.mosfets.names[el] : cell.others[elementIndex(el)].name;
+}
+
 export function stageDeviceNames(cell: Cell, stage: Stage): string[] {
-  return stage.elements.map((e) => (isMosElement(e) ? cell.mosfets.names[e] : cell.others[elementIndex(e)].name));
+  return stage.elements.map((e) => deviceName(cell, e));
 }
 
 export function heldText(cell: Cell, held: readonly HeldInput[]): string {
